@@ -1,0 +1,131 @@
+"""The library API: wires ingest -> extract -> recompute -> check for one or many inputs.
+
+This is the only module the CLI calls; everything the CLI does is reachable from here:
+
+    >>> import scrutiny
+    >>> result = scrutiny.check_text("The groups differed, t(28) = 2.20, p = .01.")
+    >>> [flag.check for claim in result.claims for flag in claim.flags]
+    ['p-mismatch']
+"""
+
+from __future__ import annotations
+
+import os
+import sys
+from pathlib import Path
+from typing import BinaryIO, Iterable
+
+from .check import Context, run_checks, verdict
+from .errors import InputError
+from .extract import find_claims
+from .ingest import MANUSCRIPT_SUFFIXES, document_from_bytes, document_from_text, read_document
+from .model import ClaimResult, Document, DocumentResult, Run, Settings
+from .recompute import recompute
+
+#: the name under which standard input is reported
+STDIN = "-"
+#: inputs larger than this are refused with a message instead of being read into memory
+MAX_INPUT_BYTES = 512 * 1024 * 1024
+
+
+def check_document(document: Document, settings: Settings | None = None) -> DocumentResult:
+    """Find, recompute and check every result in an already ingested Document."""
+    settings = settings or Settings()
+    claims = find_claims(document)
+    context = Context(path=document.path, claims=tuple(claims))
+    results = []
+    for number, claim in enumerate(claims, start=1):
+        recomputed = recompute(claim, settings)
+        flags = run_checks(claim, recomputed, context, settings)
+        status, reason = verdict(claim, recomputed, flags)
+        results.append(ClaimResult(id=f"c{number}", claim=claim, recomputed=recomputed,
+                                   flags=flags, status=status, reason=reason))
+    return DocumentResult(path=document.path, format=document.format, claims=tuple(results),
+                          encoding=document.encoding, pages=document.pages)
+
+
+def check_text(text: str, settings: Settings | None = None, path: str = "<text>") -> DocumentResult:
+    """Check a manuscript given as a string."""
+    return check_document(document_from_text(text, path=path), settings)
+
+
+def check_file(path: str | os.PathLike[str], settings: Settings | None = None) -> DocumentResult:
+    """Check one manuscript file; raises `InputError` if it cannot be read as one."""
+    name = os.fspath(path)
+    try:
+        size = os.path.getsize(name)
+    except OSError:
+        size = 0  # read_document reports the real problem
+    if size > MAX_INPUT_BYTES:
+        raise InputError(name, f"too large ({size / 2**20:,.0f} MB; the limit is "
+                               f"{MAX_INPUT_BYTES / 2**20:,.0f} MB)")
+    return check_document(read_document(name), settings)
+
+
+def check_stream(stream: BinaryIO, settings: Settings | None = None,
+                 path: str = "<stdin>") -> DocumentResult:
+    """Check a manuscript read from a binary stream (standard input)."""
+    data = stream.read(MAX_INPUT_BYTES + 1)
+    if len(data) > MAX_INPUT_BYTES:
+        raise InputError(path, "too large for standard input")
+    return check_document(document_from_bytes(data, path), settings)
+
+
+def collect_inputs(paths: Iterable[str]) -> tuple[list[str], list[str]]:
+    """Expand folders (recursively, in sorted order) into manuscript files.
+
+    Returns `(inputs, skipped)`: files named explicitly are always inputs (their content
+    decides their format); inside folders, files whose extension is not a manuscript format
+    are listed in `skipped` so that the summary can count them. Hidden files and folders
+    (".git", ".DS_Store") are passed over silently.
+    """
+    inputs: list[str] = []
+    skipped: list[str] = []
+    seen: set[str] = set()
+
+    def add(name: str) -> None:
+        key = name if name == STDIN else os.path.normpath(name)
+        if key not in seen:
+            seen.add(key)
+            inputs.append(name)
+
+    for name in paths:
+        if name != STDIN and os.path.isdir(name):
+            for folder, subfolders, files in os.walk(name):
+                subfolders[:] = sorted(d for d in subfolders if not d.startswith("."))
+                for file_name in sorted(files):
+                    if file_name.startswith("."):
+                        continue
+                    full = os.path.join(folder, file_name)
+                    if Path(file_name).suffix.lower() in MANUSCRIPT_SUFFIXES:
+                        add(full)
+                    else:
+                        skipped.append(full)
+        else:
+            add(name)
+    return inputs, skipped
+
+
+def check_paths(paths: Iterable[str], settings: Settings | None = None,
+                stdin: BinaryIO | None = None) -> Run:
+    """Check files, folders (recursed) and "-" (standard input); one bad input never stops
+    the others."""
+    settings = settings or Settings()
+    inputs, skipped = collect_inputs(paths)
+    documents = tuple(_check_one(name, settings, stdin) for name in inputs)
+    return Run(settings=settings, documents=documents, skipped=tuple(skipped))
+
+
+def _check_one(name: str, settings: Settings, stdin: BinaryIO | None) -> DocumentResult:
+    try:
+        if name == STDIN:
+            return check_stream(stdin or sys.stdin.buffer, settings)
+        return check_file(name, settings)
+    except InputError as exc:
+        return DocumentResult(path=exc.path, format=None, errors=(exc.reason,))
+    except MemoryError:
+        return DocumentResult(path=name, format=None, errors=("not enough memory to check it",))
+    except Exception as exc:  # a bug must not stop the batch or show a traceback
+        return DocumentResult(path=name, format=None,
+                              errors=(f"internal error while checking ({type(exc).__name__}: "
+                                      f"{exc}); please report it",))

@@ -1,0 +1,146 @@
+"""The command line: a thin shell over `scrutiny.api`.
+
+    scrutiny check PATH... [--format text|json] [--alpha A] [--fail-on SEVERITY]
+                           [--sesoi MEASURE=VALUE]...
+    scrutiny checks        list every check with the statistics behind it
+
+Exit codes: 0 no flag at or above --fail-on; 1 flags at or above it; 2 bad usage, or an input
+that could not be read (the other inputs are still checked and reported).
+"""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from typing import Sequence, TextIO
+
+from . import __version__
+from .api import check_paths
+from .check import REGISTRY
+from .errors import UsageError
+from .model import Run, Settings, Severity
+from .report import FORMATS, render
+
+EXIT_OK, EXIT_FLAGS, EXIT_USAGE = 0, 1, 2
+_SESOI_KEYS = {"d": "sesoi_d", "r": "sesoi_r", "eta2": "sesoi_eta2", "w": "sesoi_w"}
+
+
+class _Parser(argparse.ArgumentParser):
+    """argparse that reports bad usage in one line and raises instead of exiting."""
+
+    def error(self, message: str) -> None:  # type: ignore[override]
+        raise UsageError(f"{message} (see '{self.prog} --help')")
+
+
+def _probability(text: str) -> float:
+    try:
+        value = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"not a number: {text!r}") from None
+    if not 0.0 < value < 1.0:
+        raise argparse.ArgumentTypeError(f"must lie strictly between 0 and 1, got {text}")
+    return value
+
+
+def _sesoi(text: str) -> tuple[str, float]:
+    key, _, value = text.partition("=")
+    key = key.strip().lower()
+    if key not in _SESOI_KEYS or not value:
+        raise argparse.ArgumentTypeError(
+            f"expected MEASURE=VALUE with MEASURE one of {', '.join(_SESOI_KEYS)}, got {text!r}")
+    try:
+        number = float(value)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"not a number: {value!r}") from None
+    if number <= 0:
+        raise argparse.ArgumentTypeError(f"must be positive, got {value}")
+    return key, number
+
+
+def build_parser() -> argparse.ArgumentParser:
+    parser = _Parser(prog="scrutiny", description="Check the statistics reported in "
+                     "scientific manuscripts.")
+    parser.add_argument("--version", action="version", version=f"scrutiny {__version__}")
+    commands = parser.add_subparsers(dest="command", metavar="COMMAND", parser_class=_Parser)
+    check = commands.add_parser(
+        "check", help="find, recompute and check every reported test result",
+        description="Find every reported test result in the manuscripts, recompute its "
+                    "p-value and flag what does not add up.")
+    check.add_argument("paths", nargs="+", metavar="PATH",
+                       help="manuscript files, folders (searched recursively) or - for "
+                            "standard input")
+    check.add_argument("--format", choices=FORMATS, default="text",
+                       help="report format (default: text)")
+    check.add_argument("--alpha", type=_probability, default=0.05,
+                       help="significance level for decision flips and effects (default: .05)")
+    check.add_argument("--fail-on", choices=[s.label for s in Severity] + ["never"],
+                       default="error",
+                       help="exit with 1 when a flag of this severity or higher is raised "
+                            "(default: error)")
+    check.add_argument("--sesoi", type=_sesoi, action="append", default=[],
+                       metavar="MEASURE=VALUE",
+                       help="smallest effect size of interest, e.g. d=0.3, r=0.1, eta2=0.01, "
+                            "w=0.1 (defaults: Cohen's small effects); may be repeated")
+    commands.add_parser("checks", help="list every check and the statistics behind it",
+                        description="List every check scrutiny runs.")
+    return parser
+
+
+def exit_code(run: Run, fail_on: str) -> int:
+    """2 when an input could not be read, else 1 when a flag reaches `fail_on`, else 0."""
+    if any(document.errors for document in run.documents):
+        return EXIT_USAGE
+    if fail_on == "never":
+        return EXIT_OK
+    threshold = Severity.from_label(fail_on)
+    flagged = any(flag.severity >= threshold
+                  for document in run.documents for claim in document.claims
+                  for flag in claim.flags)
+    return EXIT_FLAGS if flagged else EXIT_OK
+
+
+def _list_checks(stream: TextIO) -> None:
+    for registered in REGISTRY.values():
+        stream.write(f"{registered.id} ({registered.severity.label}): {registered.title}\n")
+        for line in registered.explanation.splitlines():
+            stream.write(f"    {line}\n")
+        stream.write("\n")
+
+
+def main(argv: Sequence[str] | None = None, stdout: TextIO | None = None,
+         stderr: TextIO | None = None) -> int:
+    stdout = stdout or sys.stdout
+    stderr = stderr or sys.stderr
+    try:
+        args = build_parser().parse_args(argv)
+        if args.command is None:
+            raise UsageError("a command is needed: 'scrutiny check PATH...' or 'scrutiny checks'"
+                             " (see 'scrutiny --help')")
+        if args.command == "checks":
+            _list_checks(stdout)
+            return EXIT_OK
+        settings = Settings(alpha=args.alpha,
+                            **{_SESOI_KEYS[key]: value for key, value in args.sesoi})
+        run = check_paths(args.paths, settings=settings)
+        for document in run.documents:
+            for error in document.errors:
+                stderr.write(f"scrutiny: {document.path}: {error}\n")
+        render(run, args.format, stdout)
+        stdout.flush()
+        return exit_code(run, args.fail_on)
+    except UsageError as exc:
+        stderr.write(f"scrutiny: error: {exc}\n")
+        return EXIT_USAGE
+    except KeyboardInterrupt:
+        stderr.write("scrutiny: interrupted\n")
+        return 130
+    except BrokenPipeError:
+        # The reader of our output went away (e.g. `| head`); nothing more to say.
+        try:
+            sys.stdout = None  # type: ignore[assignment]
+        finally:
+            return EXIT_OK
+
+
+if __name__ == "__main__":  # pragma: no cover
+    sys.exit(main())

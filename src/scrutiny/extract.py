@@ -1,0 +1,215 @@
+"""extract: find every reported test result (a `Claim`) in a `Document`.
+
+How a result is found:
+
+1. One combined regex over the statistic patterns in `patterns/` finds each statistic head
+   ("t(28) = 2.45", "F(2, 87) = 4.12", "χ2(1, N = 80) = 4.2", "F < 1").
+2. After each head, a *window* runs to the start of the next head, the end of the sentence or
+   250 characters, whichever comes first. The first p-value (or "ns") in the window belongs to
+   the statistic, so that whatever a manuscript prints in between ("MSE = 2,506.01",
+   "ηp2 = .12", a sphericity epsilon) does not matter. Degrees of freedom and N printed after
+   the statistic ("t = 2.45, df = 28") are taken from the window too.
+3. Whether the test was one- or two-sided is read from the words of the sentence, else of the
+   paragraph (the nearest mention wins), or from a label on the p-value itself.
+
+Everything is done on the normalised text and mapped back to the text as decoded, so the
+strings in a Claim are exactly as printed and its offsets point into the file's own text.
+"""
+
+from __future__ import annotations
+
+from bisect import bisect_left, bisect_right
+from dataclasses import dataclass
+
+import regex
+
+from .model import Claim, Document, PValue
+from .patterns import Library, load_library
+
+#: how far after a statistic its p-value may be printed
+WINDOW = 250
+
+_COMPARATORS = {
+    "=": "=", "<": "<", ">": ">", "≤": "<=", "≥": ">=",
+    "<=": "<=", "=<": "<=", ">=": ">=", "=>": ">=",
+}
+
+# A sentence ends at ".", "!" or "?" followed by white space and a capital or an opening
+# bracket, unless the full stop ends a common abbreviation; a blank line ends it too.
+_SENTENCE_BREAK = regex.compile(
+    r"""
+    (?<= [.!?]["'”’)]? )
+    (?<! \b (?: al | vs | e\.g | i\.e | cf | Fig | Figs | Eq | Eqs | Tab | No | approx | ca
+              | resp | Dr | Mr | Ms | Mrs | St | Ref | Refs | Vol | Suppl | et | viz ) \. )
+    \s+ (?= [A-Z(\["“‘] )
+    | \n [ \t]* \n \s*
+    """,
+    regex.VERBOSE,
+)
+_PARAGRAPH_BREAK = regex.compile(r"\n[ \t]*\n\s*")
+#: cues read from the words around a result: cue -> ((pattern kind, value), ...)
+_CUES = {
+    "tails": (("tails-one", "one"), ("tails-two", "two")),
+    "design": (("design-within", "within"), ("design-between", "between")),
+}
+_ALL_BEFORE = regex.compile(r"(?i:\ball|\bboth|\beach)\s+$")
+_WHITESPACE = regex.compile(r"\s+")
+
+
+def _comparator(printed: str) -> str:
+    compact = printed.replace(" ", "")
+    if compact in ("=<", "=>") and " " in printed:
+        # "p = < .001" printed with a space is "p < .001"
+        return "<" if compact == "=<" else ">"
+    return _COMPARATORS.get(compact, compact)
+
+
+@dataclass(frozen=True)
+class _Boundaries:
+    """Sentence and paragraph starts and tails mentions of one document, found in one pass."""
+
+    sentence_starts: list[int]
+    paragraph_starts: list[int]
+    #: per cue ("tails", "design"): sorted (offset, value) of every mention in the document
+    cues: dict[str, list[tuple[int, str]]]
+
+    @classmethod
+    def of(cls, text: str, library: Library) -> "_Boundaries":
+        sentences = [0] + [m.end() for m in _SENTENCE_BREAK.finditer(text)]
+        paragraphs = [0] + [m.end() for m in _PARAGRAPH_BREAK.finditer(text)]
+        cues: dict[str, list[tuple[int, str]]] = {}
+        for cue, kinds in _CUES.items():
+            mentions = [(m.start(), value) for kind, value in kinds
+                        for m in library.scanner(kind).finditer(text)]
+            cues[cue] = sorted(mentions)
+        return cls(sentences, paragraphs, cues)
+
+    @staticmethod
+    def _span(starts: list[int], position: int, text_length: int) -> tuple[int, int]:
+        index = bisect_right(starts, position) - 1
+        end = starts[index + 1] if index + 1 < len(starts) else text_length
+        return starts[index], end
+
+    def sentence(self, position: int, text_length: int) -> tuple[int, int]:
+        return self._span(self.sentence_starts, position, text_length)
+
+    def paragraph(self, position: int, text_length: int) -> tuple[int, int]:
+        return self._span(self.paragraph_starts, position, text_length)
+
+    def nearest(self, cue: str, start: int, end: int, position: int) -> str | None:
+        """The value of the mention of `cue` in [start, end) nearest to `position`, if any."""
+        mentions = self.cues[cue]
+        low = bisect_left(mentions, (start, ""))
+        high = bisect_left(mentions, (end, ""))
+        if low == high:
+            return None
+        return min(mentions[low:high], key=lambda item: abs(item[0] - position))[1]
+
+    def stated(self, cue: str, position: int, text_length: int) -> str | None:
+        """What the sentence at `position` says about `cue`, else what its paragraph says."""
+        sentence_start, sentence_end = self.sentence(position, text_length)
+        value = self.nearest(cue, sentence_start, sentence_end, position)
+        if value is None:
+            paragraph_start, paragraph_end = self.paragraph(position, text_length)
+            value = self.nearest(cue, paragraph_start, paragraph_end, position)
+        return value
+
+
+def find_claims(document: Document, library: Library | None = None) -> list[Claim]:
+    """Every test result printed in `document`, in the order of the text."""
+    library = library or load_library()
+    text = document.normalised
+    boundaries = _Boundaries.of(text, library)
+    heads = list(library.scanner("statistic").finditer(text))
+    claims: list[Claim] = []
+    for index, head in enumerate(heads):
+        next_head = heads[index + 1].start() if index + 1 < len(heads) else len(text)
+        claim = _claim_at(document, library, boundaries, head, next_head)
+        if claim is not None:
+            claims.append(claim)
+    return claims
+
+
+def _first(scanner: regex.Pattern, text: str, start: int, end: int) -> regex.Match | None:
+    return scanner.search(text, start, end) if start < end else None
+
+
+def _claim_at(document: Document, library: Library, boundaries: _Boundaries,
+              head: regex.Match, next_head: int) -> Claim | None:
+    text = document.normalised
+    pattern = library.matched_pattern("statistic", head)
+    sentence_start, sentence_end = boundaries.sentence(head.start(), len(text))
+    window_end = min(next_head, sentence_end, head.end() + WINDOW)
+
+    p_match = _first(library.scanner("p-value"), text, head.end(), window_end)
+    ns_end = p_match.start() if p_match else window_end
+    ns_match = _first(library.scanner("not-significant"), text, head.end(), ns_end)
+    if pattern.needs_p and p_match is None and ns_match is None:
+        return None
+
+    def printed(match: regex.Match, group: str) -> str | None:
+        """A group's text exactly as printed in the original file."""
+        if match.group(group) is None:
+            return None
+        start, end = match.span(group)
+        return document.text[document.original_offset(start):document.original_offset(end)]
+
+    df = tuple(d for d in (printed(head, "df1"), printed(head, "df2")) if d is not None)
+    n = printed(head, "n")
+    p_value: PValue | None = None
+    tails = None
+    end = head.end()
+    if p_match is not None:
+        p_value = PValue(
+            comparator=_comparator(p_match.group("p_cmp")),
+            reported=printed(p_match, "p_value") or "",
+            adjusted=p_match.group("p_adjust"),
+        )
+        tails_label = p_match.group("p_tails")
+        if tails_label:
+            tails = "one" if tails_label in ("one", "1") else "two"
+        end = p_match.end()
+    elif ns_match is not None:
+        p_value = PValue(comparator="ns", reported="")
+        end = ns_match.end()
+
+    # Degrees of freedom or N printed after the statistic ("t = 2.45, df = 28").
+    between_end = p_match.start() if p_match else window_end
+    if not df:
+        df_match = _first(library.scanner("df"), text, head.end(), between_end)
+        if df_match is not None:
+            df = tuple(d for d in (printed(df_match, "df1"), printed(df_match, "df2")) if d)
+    if n is None and not (pattern.test == "r" and df):
+        n_match = _first(library.scanner("sample-size"), text, head.end(), between_end)
+        if n_match is not None:
+            n = printed(n_match, "n")
+
+    if tails is None:
+        tails = boundaries.stated("tails", head.start(), len(text))
+    design = boundaries.stated("design", head.start(), len(text)) if pattern.test == "t" else None
+
+    aggregate = bool(head.group("plural")) or bool(p_match and p_match.group("p_plural")) \
+        or bool(_ALL_BEFORE.search(text, max(0, head.start() - 12), head.start()))
+
+    start_original = document.original_offset(head.start())
+    end_original = document.original_offset(end)
+    sentence = document.text[document.original_offset(sentence_start):
+                             document.original_offset(sentence_end)]
+    return Claim(
+        test=pattern.test or "",
+        df=df,
+        statistic=printed(head, "statistic") or "",
+        statistic_comparator=_comparator(head.group("stat_cmp")),
+        p=p_value,
+        location=document.location(start_original, end_original),
+        text=document.text[start_original:end_original],
+        sentence=_WHITESPACE.sub(" ", sentence).strip(),
+        n=n,
+        tails_stated=tails,
+        design_stated=design,
+        aggregate=aggregate,
+        pattern=pattern.id,
+    )
+
+
+__all__ = ["find_claims", "WINDOW"]

@@ -1,0 +1,306 @@
+"""The records every pipeline stage shares.
+
+Data flows one way: ingest makes a `Document`, extract finds `Claim`s in it, recompute turns a
+Claim into a `Recomputed`, the checks turn both into `Flag`s, and the results are gathered in a
+`ClaimResult` per Claim and a `DocumentResult` per input. All records are frozen: a stage never
+changes what an earlier stage produced.
+"""
+
+from __future__ import annotations
+
+import enum
+from dataclasses import dataclass, field
+from typing import Mapping
+
+
+class Severity(enum.IntEnum):
+    """Levels of the SARIF standard; a larger value is more serious."""
+
+    NOTE = 1
+    WARNING = 2
+    ERROR = 3
+
+    @property
+    def label(self) -> str:
+        return self.name.lower()
+
+    @classmethod
+    def from_label(cls, label: str) -> "Severity":
+        try:
+            return cls[label.strip().upper()]
+        except KeyError:
+            choices = ", ".join(s.label for s in cls)
+            raise ValueError(f"unknown severity {label!r} (choose from {choices})") from None
+
+
+class Status(str, enum.Enum):
+    """Verdict on one Claim."""
+
+    CONSISTENT = "consistent"
+    INCONSISTENT = "inconsistent"
+    UNCHECKED = "unchecked"
+
+
+#: Test families the extractor knows; the keys are the JSON contract's `test` values.
+TEST_FAMILIES = ("t", "F", "chi2", "r", "z")
+
+
+@dataclass(frozen=True)
+class Location:
+    """Where a Claim is printed.
+
+    `start`/`end` are character offsets into the text as decoded from the file, before any
+    normalisation; `line` is 1-based (per page for PDFs, per file for text); `page` is 1-based
+    or None for formats without pages.
+    """
+
+    start: int
+    end: int
+    line: int
+    page: int | None = None
+
+
+@dataclass(frozen=True)
+class Document:
+    """One input after ingest.
+
+    `text` is the text as decoded from the file; `normalised` is the same text after the
+    normalisation that extraction relies on (Unicode NFKC, dashes to "-", ...). `offset_map`
+    maps an offset in `normalised` back to an offset in `text`.
+    """
+
+    path: str
+    format: str
+    text: str
+    normalised: str
+    offset_map: "OffsetMap"
+    encoding: str | None = None
+    pages: int | None = None
+
+    def original_offset(self, normalised_offset: int) -> int:
+        return self.offset_map.to_original(normalised_offset)
+
+    def location(self, start: int, end: int) -> Location:
+        """Location of the original span [start, end)."""
+        return self.offset_map.location(start, end)
+
+
+class OffsetMap:
+    """Maps offsets in a normalised text back to the decoded text and gives line numbers.
+
+    Normalisation mostly replaces one character by one character, so the map is stored as a
+    short list of breakpoints `(normalised_offset, original_offset)` where the two texts shift
+    against each other; between breakpoints the offsets move together.
+    """
+
+    __slots__ = ("_norm_points", "_orig_points", "_line_starts", "_page_starts")
+
+    def __init__(
+        self,
+        breakpoints: list[tuple[int, int]],
+        line_starts: list[int],
+        page_starts: tuple[int, ...] = (),
+    ) -> None:
+        if not breakpoints or breakpoints[0] != (0, 0):
+            breakpoints = [(0, 0), *breakpoints]
+        self._norm_points = [b[0] for b in breakpoints]
+        self._orig_points = [b[1] for b in breakpoints]
+        self._line_starts = line_starts
+        self._page_starts = page_starts
+
+    def to_original(self, normalised_offset: int) -> int:
+        from bisect import bisect_right
+
+        i = bisect_right(self._norm_points, normalised_offset) - 1
+        return self._orig_points[i] + (normalised_offset - self._norm_points[i])
+
+    def location(self, start: int, end: int) -> Location:
+        from bisect import bisect_right
+
+        if self._page_starts:
+            page_index = bisect_right(self._page_starts, start) - 1
+            page_start = self._page_starts[page_index]
+            first_line = bisect_right(self._line_starts, page_start - 1)
+            line = bisect_right(self._line_starts, start) - first_line + 1
+            return Location(start=start, end=end, line=line, page=page_index + 1)
+        line = bisect_right(self._line_starts, start)
+        return Location(start=start, end=end, line=line, page=None)
+
+
+@dataclass(frozen=True)
+class PValue:
+    """A p-value as printed.
+
+    `comparator` is one of "=", "<", ">", "<=", ">=" or "ns" (printed as "ns"/"n.s.", meaning
+    not significant at the paper's alpha). `reported` is the number exactly as printed (empty
+    for "ns"). `adjusted` names the printed label of a multiplicity adjustment ("adj",
+    "Bonferroni", ...) when the p-value carries one.
+    """
+
+    comparator: str
+    reported: str
+    adjusted: str | None = None
+
+
+@dataclass(frozen=True)
+class Claim:
+    """One reported test result, exactly as the text prints it.
+
+    Numbers stay strings so that their rounding can be reasoned about: "2.450" and "2.45" are
+    different claims. `statistic_comparator` is "=" for a result and "<", ">", "<=", ">=" for a
+    bound ("F < 1", "all ts(171) >= 3.19"). `tails_stated` is "one" or "two" when the sentence
+    or its paragraph says so, else None.
+    """
+
+    test: str
+    df: tuple[str, ...]
+    statistic: str
+    statistic_comparator: str
+    p: PValue | None
+    location: Location
+    text: str
+    sentence: str
+    n: str | None = None
+    tails_stated: str | None = None
+    #: "within" (one sample, paired, repeated measures) or "between" (independent groups) when
+    #: the words around a t test say so, else None
+    design_stated: str | None = None
+    aggregate: bool = False
+    #: which pattern in patterns/ found the statistic (for debugging and pattern tests)
+    pattern: str = ""
+
+
+@dataclass(frozen=True)
+class Interval:
+    """A closed interval [low, high] of real numbers."""
+
+    low: float
+    high: float
+
+    def __post_init__(self) -> None:
+        if self.low > self.high:
+            raise ValueError(f"empty interval [{self.low}, {self.high}]")
+
+    def contains(self, value: float) -> bool:
+        return self.low <= value <= self.high
+
+
+@dataclass(frozen=True)
+class Effect:
+    """An effect size implied by a Claim, with the assumption it rests on.
+
+    `measure` is "d", "d_z", "r", "eta2_partial" or "w"; `low`/`high` bound a confidence
+    interval when one was computed.
+    """
+
+    measure: str
+    value: float
+    assumption: str
+    n: float | None = None
+    low: float | None = None
+    high: float | None = None
+    confidence: float | None = None
+
+
+@dataclass(frozen=True)
+class Recomputed:
+    """Numbers derived from a Claim; no text, no judgement.
+
+    `p` is the p-value of the printed statistic taken at face value (two-sided for t, z and r,
+    upper tail for F and chi-square); `p_interval` is the range of p-values over every
+    statistic that rounds to the printed one (or satisfies the printed bound);
+    `p_interval_one_sided` is the same for a one-sided test of t, z or r (None otherwise).
+    `reported_p_interval` is the range of p-values the printed p stands for. `reason` says why
+    nothing could be recomputed.
+    """
+
+    p: float | None = None
+    p_interval: Interval | None = None
+    p_interval_one_sided: Interval | None = None
+    statistic_interval: Interval | None = None
+    reported_p_interval: Interval | None = None
+    df: tuple[float, ...] = ()
+    n: float | None = None
+    effect: Effect | None = None
+    reason: str | None = None
+
+
+@dataclass(frozen=True)
+class Flag:
+    """One problem a check found."""
+
+    check: str
+    severity: Severity
+    message: str
+    details: Mapping[str, float | str | None] = field(default_factory=dict, hash=False)
+
+
+@dataclass(frozen=True)
+class ClaimResult:
+    """A Claim with everything the later stages found about it."""
+
+    id: str
+    claim: Claim
+    recomputed: Recomputed
+    flags: tuple[Flag, ...]
+    status: Status
+    reason: str | None = None
+
+
+@dataclass(frozen=True)
+class DocumentResult:
+    """Everything found in one input, or why it could not be read."""
+
+    path: str
+    format: str | None
+    claims: tuple[ClaimResult, ...] = ()
+    errors: tuple[str, ...] = ()
+    encoding: str | None = None
+    pages: int | None = None
+
+    @property
+    def readable(self) -> bool:
+        return not self.errors
+
+
+@dataclass(frozen=True)
+class Settings:
+    """Everything a user can tune; one frozen object passed to every stage that needs it.
+
+    The smallest effect sizes of interest default to Cohen's (1988) "small" conventions:
+    d = 0.2, r = 0.1, partial eta squared = 0.01, w = 0.1.
+    """
+
+    alpha: float = 0.05
+    sesoi_d: float = 0.2
+    sesoi_r: float = 0.1
+    sesoi_eta2: float = 0.01
+    sesoi_w: float = 0.1
+
+    def __post_init__(self) -> None:
+        if not 0.0 < self.alpha < 1.0:
+            raise ValueError(f"alpha must lie strictly between 0 and 1, got {self.alpha}")
+        for name in ("sesoi_d", "sesoi_r", "sesoi_eta2", "sesoi_w"):
+            if getattr(self, name) <= 0:
+                raise ValueError(f"{name} must be positive, got {getattr(self, name)}")
+
+    def as_dict(self) -> dict[str, object]:
+        return {
+            "alpha": self.alpha,
+            "sesoi": {
+                "d": self.sesoi_d,
+                "r": self.sesoi_r,
+                "eta2_partial": self.sesoi_eta2,
+                "w": self.sesoi_w,
+            },
+        }
+
+
+@dataclass(frozen=True)
+class Run:
+    """The result of checking one or more inputs with one set of Settings."""
+
+    settings: Settings
+    documents: tuple[DocumentResult, ...]
+    #: files found while recursing folders that are not in a format scrutiny reads
+    skipped: tuple[str, ...] = ()

@@ -1,0 +1,82 @@
+"""report: renderers from results to text. They format; they never compute statistics.
+
+`render(run, format, stream)` writes a whole run in one of `FORMATS`. Every format carries the
+caution that a flag is a prompt to look, not proof of error or misconduct.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import TextIO
+
+from ..model import Run, Status
+
+FORMATS = ("text", "json")
+
+#: the caution every report carries, in every format
+CAUTION = ("A flag is a prompt to look, not proof of error or misconduct: typos, corrections "
+           "for multiple testing and tests scrutiny does not know explain many flags.")
+
+
+@dataclass(frozen=True)
+class Summary:
+    """Counts over a run, for the summary line and the JSON `summary` object."""
+
+    documents: int
+    unreadable: int
+    skipped: int
+    claims: int
+    consistent: int
+    inconsistent: int
+    decision_flips: int
+    unchecked: int
+    flags: int
+
+    @classmethod
+    def of(cls, run: Run) -> "Summary":
+        claims = [c for d in run.documents for c in d.claims]
+        return cls(
+            documents=len(run.documents),
+            unreadable=sum(1 for d in run.documents if d.errors),
+            skipped=len(run.skipped),
+            claims=len(claims),
+            consistent=sum(1 for c in claims if c.status is Status.CONSISTENT),
+            inconsistent=sum(1 for c in claims if c.status is Status.INCONSISTENT),
+            decision_flips=sum(1 for c in claims if any(f.check == "decision-flip"
+                                                        for f in c.flags)),
+            unchecked=sum(1 for c in claims if c.status is Status.UNCHECKED),
+            flags=sum(len(c.flags) for c in claims),
+        )
+
+    def line(self) -> str:
+        parts = [
+            f"{self.claims} result{'s' if self.claims != 1 else ''} found",
+            f"{self.consistent} consistent",
+            f"{self.inconsistent} inconsistent",
+            f"{self.decision_flips} decision flip{'s' if self.decision_flips != 1 else ''}",
+            f"{self.unchecked} unchecked",
+        ]
+        inputs = f"{self.documents} document{'s' if self.documents != 1 else ''}"
+        if self.unreadable:
+            inputs += f" ({self.unreadable} could not be read)"
+        if self.skipped:
+            inputs += f", {self.skipped} other file{'s' if self.skipped != 1 else ''} skipped " \
+                      "(not a manuscript format)"
+        return f"{inputs}: " + ", ".join(parts) + "."
+
+
+def render(run: Run, format: str, stream: TextIO, *, width: int | None = None) -> None:
+    """Write `run` to `stream` in `format` ("text" or "json")."""
+    if format == "json":
+        from .json import render_json
+
+        render_json(run, stream)
+    elif format == "text":
+        from .text import render_text
+
+        render_text(run, stream, width=width)
+    else:
+        raise ValueError(f"unknown format {format!r} (choose from {', '.join(FORMATS)})")
+
+
+__all__ = ["CAUTION", "FORMATS", "Summary", "render"]

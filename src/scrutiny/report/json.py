@@ -1,0 +1,140 @@
+"""JSON report: the machine contract (schema version 1, documented in the README).
+
+Numbers are JSON numbers, printed strings stay strings, and a missing value is null. Keys are
+never dropped: a consumer can rely on every key of the schema being present.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+from typing import Any, TextIO
+
+from .. import __version__
+from ..model import ClaimResult, DocumentResult, Effect, Run
+from ..rounding import UnreadableNumber, parse_printed
+from . import CAUTION, Summary
+
+SCHEMA_VERSION = 1
+
+
+def _number(value: float | None) -> float | int | None:
+    if value is None or math.isnan(value):
+        return None
+    if math.isinf(value):
+        return None
+    if float(value).is_integer() and abs(value) < 2**53:
+        return int(value)
+    return float(value)
+
+
+def _printed_number(printed: str | None) -> float | int | None:
+    if not printed:
+        return None
+    try:
+        return _number(parse_printed(printed).value)
+    except UnreadableNumber:
+        return None
+
+
+def _effect(effect: Effect | None) -> dict[str, Any] | None:
+    if effect is None:
+        return None
+    return {
+        "measure": effect.measure,
+        "value": _number(effect.value),
+        "low": _number(effect.low),
+        "high": _number(effect.high),
+        "confidence": effect.confidence,
+        "n": _number(effect.n),
+        "assumption": effect.assumption,
+    }
+
+
+def claim_json(result: ClaimResult) -> dict[str, Any]:
+    claim, recomputed = result.claim, result.recomputed
+    p_interval = recomputed.p_interval
+    one_sided = recomputed.p_interval_one_sided
+    df = recomputed.df or tuple(v for v in (_printed_number(d) for d in claim.df) if v is not None)
+    return {
+        "id": result.id,
+        "text": claim.text,
+        "sentence": claim.sentence,
+        "location": {
+            "page": claim.location.page,
+            "line": claim.location.line,
+            "start": claim.location.start,
+            "end": claim.location.end,
+        },
+        "test": claim.test,
+        "df": [_number(d) for d in df],
+        "df_printed": list(claim.df),
+        "statistic": claim.statistic,
+        "statistic_comparator": claim.statistic_comparator,
+        "n": _number(recomputed.n) if recomputed.n is not None else _printed_number(claim.n),
+        "aggregate": claim.aggregate,
+        "p": {
+            "comparator": claim.p.comparator if claim.p else None,
+            "reported": claim.p.reported if claim.p else None,
+            "adjusted": claim.p.adjusted if claim.p else None,
+            "tails_stated": claim.tails_stated,
+            "recomputed": _number(recomputed.p),
+            "low": _number(p_interval.low) if p_interval else None,
+            "high": _number(p_interval.high) if p_interval else None,
+            "one_sided_low": _number(one_sided.low) if one_sided else None,
+            "one_sided_high": _number(one_sided.high) if one_sided else None,
+        },
+        "status": result.status.value,
+        "reason": result.reason,
+        "effect": _effect(recomputed.effect),
+        "evidence": None,
+        "flags": [
+            {
+                "check": flag.check,
+                "severity": flag.severity.label,
+                "message": flag.message,
+                "details": {k: (_number(v) if isinstance(v, float) else v)
+                            for k, v in flag.details.items()},
+            }
+            for flag in result.flags
+        ],
+    }
+
+
+def document_json(document: DocumentResult) -> dict[str, Any]:
+    return {
+        "path": document.path,
+        "format": document.format,
+        "encoding": document.encoding,
+        "pages": document.pages,
+        "errors": list(document.errors),
+        "claims": [claim_json(c) for c in document.claims],
+    }
+
+
+def run_json(run: Run) -> dict[str, Any]:
+    summary = Summary.of(run)
+    return {
+        "scrutiny": __version__,
+        "schema": SCHEMA_VERSION,
+        "settings": run.settings.as_dict(),
+        "caution": CAUTION,
+        "summary": {
+            "documents": summary.documents,
+            "unreadable": summary.unreadable,
+            "skipped": summary.skipped,
+            "claims": summary.claims,
+            "consistent": summary.consistent,
+            "inconsistent": summary.inconsistent,
+            "decision_flips": summary.decision_flips,
+            "unchecked": summary.unchecked,
+            "flags": summary.flags,
+        },
+        "documents": [document_json(d) for d in run.documents],
+        "skipped": list(run.skipped),
+    }
+
+
+def render_json(run: Run, stream: TextIO) -> None:
+    json.dump(run_json(run), stream, ensure_ascii=False, indent=2)
+    stream.write("\n")

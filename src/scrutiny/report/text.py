@@ -1,0 +1,100 @@
+"""Terminal report with rich: per document a table of results, then the flags in full, then
+one summary line and the caution."""
+
+from __future__ import annotations
+
+from typing import TextIO
+
+from rich.console import Console
+from rich.table import Table
+from rich.text import Text
+
+from ..check.consistency import describe_p
+from ..model import ClaimResult, DocumentResult, Run, Severity, Status
+from ..numbers import format_p, format_p_interval
+from . import CAUTION, Summary
+
+_STATUS_STYLE = {
+    Status.CONSISTENT: "green",
+    Status.INCONSISTENT: "bold red",
+    Status.UNCHECKED: "dim",
+}
+_SEVERITY_STYLE = {Severity.ERROR: "bold red", Severity.WARNING: "yellow", Severity.NOTE: "cyan"}
+
+
+def _where(result: ClaimResult) -> str:
+    location = result.claim.location
+    return f"p.{location.page} l.{location.line}" if location.page else f"l.{location.line}"
+
+
+def _recomputed(result: ClaimResult) -> str:
+    recomputed = result.recomputed
+    if recomputed.p is not None:
+        return format_p(recomputed.p)
+    if recomputed.p_interval is not None:
+        return format_p_interval(recomputed.p_interval.low, recomputed.p_interval.high)
+    return "-"
+
+
+def _status(result: ClaimResult) -> Text:
+    label = result.status.value
+    if result.status is Status.UNCHECKED and result.reason:
+        label += f": {result.reason}"
+    return Text(label, style=_STATUS_STYLE[result.status])
+
+
+def _flags(result: ClaimResult) -> Text:
+    text = Text()
+    for index, flag in enumerate(result.flags):
+        if index:
+            text.append(", ")
+        text.append(flag.check, style=_SEVERITY_STYLE[flag.severity])
+    return text
+
+
+def _document(console: Console, document: DocumentResult) -> None:
+    about = [document.format or "unknown format"]
+    if document.encoding and document.encoding != "utf-8":
+        about.append(document.encoding)
+    console.print(Text(document.path, style="bold"), Text(f"({', '.join(about)})", style="dim"))
+    if document.errors:
+        for error in document.errors:
+            console.print(Text(f"  could not be read: {error}", style="bold red"))
+        return
+    if not document.claims:
+        console.print(Text("  no test results found", style="dim"))
+        return
+    table = Table(show_edge=False, pad_edge=False, expand=False, header_style="bold")
+    table.add_column("id", no_wrap=True)
+    table.add_column("where", no_wrap=True)
+    table.add_column("result as printed", overflow="fold", ratio=3)
+    table.add_column("reported", no_wrap=True)
+    table.add_column("recomputed", no_wrap=True)
+    table.add_column("status", ratio=1)
+    table.add_column("flags", ratio=1)
+    for result in document.claims:
+        table.add_row(result.id, _where(result), " ".join(result.claim.text.split()),
+                      describe_p(result.claim), _recomputed(result), _status(result),
+                      _flags(result))
+    console.print(table)
+    for result in document.claims:
+        for flag in result.flags:
+            line = Text(f"  {result.id} {_where(result)} ")
+            line.append(f"{flag.check} ({flag.severity.label})", style=_SEVERITY_STYLE[flag.severity])
+            line.append(f": {flag.message}")
+            console.print(line)
+
+
+def render_text(run: Run, stream: TextIO, *, width: int | None = None) -> None:
+    isatty = getattr(stream, "isatty", lambda: False)()
+    console = Console(file=stream, width=width or (None if isatty else 120),
+                      force_terminal=None if isatty else False, highlight=False,
+                      soft_wrap=False, emoji=False)
+    for index, document in enumerate(run.documents):
+        if index:
+            console.print()
+        _document(console, document)
+    if run.documents:
+        console.print()
+    console.print(Text(Summary.of(run).line(), style="bold"))
+    console.print(Text(CAUTION, style="italic"))
