@@ -57,7 +57,8 @@ def _sesoi(text: str) -> tuple[str, float]:
     return key, number
 
 
-def build_parser() -> argparse.ArgumentParser:
+def build_parser() -> tuple[argparse.ArgumentParser, dict[str, argparse.ArgumentParser]]:
+    """The top-level parser and one parser per command."""
     parser = _Parser(prog="scrutiny", description="Check the statistics reported in "
                      "scientific manuscripts.")
     parser.add_argument("--version", action="version", version=f"scrutiny {__version__}")
@@ -81,9 +82,19 @@ def build_parser() -> argparse.ArgumentParser:
                        metavar="MEASURE=VALUE",
                        help="smallest effect size of interest, e.g. d=0.3, r=0.1, eta2=0.01, "
                             "w=0.1 (defaults: Cohen's small effects); may be repeated")
-    commands.add_parser("checks", help="list every check and the statistics behind it",
-                        description="List every check scrutiny runs.")
-    return parser
+    checks = commands.add_parser("checks", help="list every check and the statistics behind it",
+                                 description="List every check scrutiny runs.")
+    return parser, {"check": check, "checks": checks}
+
+
+def parse_arguments(argv: Sequence[str]) -> argparse.Namespace:
+    """Parse a command line; options and paths may come in any order after the command."""
+    parser, commands = build_parser()
+    if argv and argv[0] in commands:
+        args = commands[argv[0]].parse_intermixed_args(argv[1:])
+        args.command = argv[0]
+        return args
+    return parser.parse_args(argv)
 
 
 def exit_code(run: Run, fail_on: str) -> int:
@@ -112,7 +123,7 @@ def main(argv: Sequence[str] | None = None, stdout: TextIO | None = None,
     stdout = stdout or sys.stdout
     stderr = stderr or sys.stderr
     try:
-        args = build_parser().parse_args(argv)
+        args = parse_arguments(list(sys.argv[1:] if argv is None else argv))
         if args.command is None:
             raise UsageError("a command is needed: 'scrutiny check PATH...' or 'scrutiny checks'"
                              " (see 'scrutiny --help')")

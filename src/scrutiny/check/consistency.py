@@ -67,7 +67,7 @@ def _range_text(claim: Claim, interval: Interval, tails: str) -> str:
         where = f"every {SYMBOLS[claim.test]} that rounds to {claim.statistic}"
     else:
         where = f"every {describe_statistic(claim)}"
-    return f"{where} gives a {tails} p in {format_p_interval(interval.low, interval.high)}"
+    return f"{where} gives {tails} p in {format_p_interval(interval.low, interval.high)}"
 
 
 @check("p-mismatch", Severity.ERROR, "Reported p cannot come from the printed statistic",

@@ -77,12 +77,21 @@ def _document(console: Console, document: DocumentResult) -> None:
                       describe_p(result.claim), _recomputed(result), _status(result),
                       _flags(result))
     console.print(table)
+    messages = Table(show_header=False, show_edge=False, box=None, pad_edge=False,
+                     padding=(0, 1, 0, 0))
+    messages.add_column("id", no_wrap=True)
+    messages.add_column("where", no_wrap=True)
+    messages.add_column("check", no_wrap=True)
+    messages.add_column("message", overflow="fold")
     for result in document.claims:
         for flag in result.flags:
-            line = Text(f"  {result.id} {_where(result)} ")
-            line.append(f"{flag.check} ({flag.severity.label})", style=_SEVERITY_STYLE[flag.severity])
-            line.append(f": {flag.message}")
-            console.print(line)
+            messages.add_row(result.id, _where(result),
+                             Text(f"{flag.check} ({flag.severity.label})",
+                                  style=_SEVERITY_STYLE[flag.severity]),
+                             flag.message)
+    if messages.row_count:
+        console.print()
+        console.print(messages)
 
 
 def render_text(run: Run, stream: TextIO, *, width: int | None = None) -> None:
