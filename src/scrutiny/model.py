@@ -9,6 +9,7 @@ changes what an earlier stage produced.
 from __future__ import annotations
 
 import enum
+from bisect import bisect_right
 from dataclasses import dataclass, field
 from typing import Mapping
 
@@ -109,14 +110,12 @@ class OffsetMap:
         self._page_starts = page_starts
 
     def to_original(self, normalised_offset: int) -> int:
-        from bisect import bisect_right
-
+        if len(self._norm_points) == 1:  # normalisation changed no lengths: offsets agree
+            return normalised_offset
         i = bisect_right(self._norm_points, normalised_offset) - 1
         return self._orig_points[i] + (normalised_offset - self._norm_points[i])
 
     def location(self, start: int, end: int) -> Location:
-        from bisect import bisect_right
-
         if self._page_starts:
             page_index = bisect_right(self._page_starts, start) - 1
             page_start = self._page_starts[page_index]
