@@ -56,10 +56,14 @@ def p_z(z: float) -> float:
 
 
 def t_from_r(r: float, df: float) -> float:
-    """The t statistic of a Pearson correlation: t = r sqrt(df / (1 - r^2))."""
+    """The t statistic of a Pearson correlation: t = r sqrt(df / (1 - r^2)).
+
+    1 - r^2 is computed as (1 - r)(1 + r), which keeps full relative precision as |r| nears 1
+    (1 - r*r loses digits there, and the tail p of a large df magnifies the loss).
+    """
     if abs(r) >= 1.0:
         return math.copysign(math.inf, r)
-    return r * math.sqrt(df / (1.0 - r * r))
+    return r * math.sqrt(df / ((1.0 - r) * (1.0 + r)))
 
 
 def p_r(r: float, df: float) -> float:

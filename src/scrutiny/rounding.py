@@ -6,8 +6,9 @@ recomputed p-value in scrutiny goes through these intervals, never through a fix
 
 Printed forms understood: a leading minus (ingest has mapped every dash to "-"), thousands
 separators ("2,506.01"), decimal commas ("4,77"; a comma followed by exactly three digits is a
-thousands separator), numbers without a leading zero (".021"), stray spaces inside a number, and
-scientific notation ("2.8 × 10-4", "2.8x10^-4", "3e-5", "10-6").
+thousands separator, unless the digits before it are a lone zero: "0,021" is 0.021), numbers
+without a leading zero (".021"), stray spaces inside a number, and scientific notation
+("2.8 × 10-4", "2.8x10^-4", "2.8·10-4", "3e-5", "10-6").
 """
 
 from __future__ import annotations
@@ -20,9 +21,13 @@ import regex
 from .ingest.normalise import normalise_fragment
 from .model import Interval
 
-_THOUSANDS = regex.compile(r"\d{1,3}(?:,\d{3})+(?:\.\d+)?")
+# A thousands group never starts with a lone zero: "0,021" is a decimal comma.
+_THOUSANDS = regex.compile(r"[1-9]\d{0,2}(?:,\d{3})+(?:\.\d+)?")
+# A multiplication dot before a power of ten: normalisation would otherwise read the middle dot
+# in "2.8·10-4" as a decimal point (between digits), so it becomes "×" before normalising.
+_TIMES_DOT = regex.compile(r"(?<=\d)\s*[\u00b7\u2219\u22c5]\s*(?=10\s*\^?\s*[-\u2212\u207b])")
 _SCIENTIFIC = (
-    regex.compile(r"(?P<mantissa>[\d.,]+)[x×*·]10\^?(?P<exponent>-?\d+)"),  # 2.8 × 10-4
+    regex.compile(r"(?P<mantissa>[\d.,]+)[xX×*·⋅]10\^?(?P<exponent>-?\d+)"),  # 2.8 × 10-4
     regex.compile(r"(?P<mantissa>[\d.,]+)[eE](?P<exponent>[-+]?\d+)"),      # 2.8e-4
     regex.compile(r"(?P<mantissa>)10\^?(?P<exponent>-\d+)"),                # 10-6, 10^-6
 )
@@ -51,7 +56,7 @@ class PrintedNumber:
 
 def parse_printed(printed: str) -> PrintedNumber:
     """Read a printed number; raise `UnreadableNumber` if it is not one."""
-    text = normalise_fragment(printed).strip().replace(" ", "")
+    text = normalise_fragment(_TIMES_DOT.sub("×", printed)).strip().replace(" ", "")
     sign = 1.0
     if text.startswith("-"):
         sign, text = -1.0, text[1:]
