@@ -4,7 +4,8 @@ The expected values here are facts of the rounding rule in the design notes (sec
 "Rounding"): a number printed to k decimals stands for every value within half a unit of its
 last digit ("2.45" -> [2.445, 2.455], "p = .021" -> [.0205, .0215]); "p < .001" is a bound
 taken at face value ([0, .001]); "p = .000" is a rounded zero ([0, .0005]); "ns" means p at or
-above alpha; a bound on a statistic is itself rounded, so it is read leniently by half a unit.
+above alpha; a bound on a statistic printed with decimals is itself rounded, so it is read
+leniently by half a unit, while a whole-number bound ("F < 1") is read exactly.
 APA-01 (report p < .001, never p = .000) comes from tests/data/reference/reporting_rules.csv.
 """
 
@@ -142,9 +143,9 @@ def test_lower_bound_is_lenient_by_half_a_unit(comparator):
 
 @pytest.mark.parametrize("comparator", ["<", "<="])
 def test_upper_bound_is_lenient_by_half_a_unit(comparator):
-    # "F < 1" with F in [0, inf): F up to 1.5 (the bound "1" is printed with no decimals)
-    assert as_tuple(statistic_interval("1", comparator, 0.0)) == approx_interval(0.0, 1.5)
-    # "F < 1.00": F up to 1.005
+    # "F < 1": a whole-number threshold chosen by the authors is read exactly
+    assert as_tuple(statistic_interval("1", comparator, 0.0)) == approx_interval(0.0, 1.0)
+    # "F < 1.00": a rounded bound, F up to 1.005
     assert as_tuple(statistic_interval("1.00", comparator, 0.0)) == approx_interval(0.0, 1.005)
     # without a range the lower end is unbounded
     assert statistic_interval("2.0", comparator).low == -math.inf

@@ -88,11 +88,13 @@ def statistic_interval(printed: str, comparator: str, lower_limit: float = -math
                        upper_limit: float = math.inf) -> Interval:
     """The values a printed statistic stands for, clipped to the statistic's range.
 
-    A bound is read leniently: "t >= 3.19" allows t down to 3.185, because the bound itself is
-    a rounded number.
+    A bound printed with decimals is read leniently: "t >= 3.19" allows t down to 3.185,
+    because such a bound is itself a rounded value. A whole-number bound ("F < 1") is a round
+    threshold the authors chose, and is read exactly.
     """
     number = parse_printed(printed)
-    low, high = number.value - number.half_unit, number.value + number.half_unit
+    half = number.half_unit if comparator == "=" or number.decimals > 0 else 0.0
+    low, high = number.value - half, number.value + half
     if comparator in ("<", "<="):
         low = lower_limit
     elif comparator in (">", ">="):
