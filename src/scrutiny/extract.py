@@ -8,9 +8,12 @@ How a result is found:
    250 characters, whichever comes first. The first p-value (or "ns") in the window belongs to
    the statistic, so that whatever a manuscript prints in between ("MSE = 2,506.01",
    "ηp2 = .12", a sphericity epsilon) does not matter. Degrees of freedom and N printed after
-   the statistic ("t = 2.45, df = 28") are taken from the window too.
+   the statistic ("t = 2.45, df = 28") are taken from the window too; when none are printed
+   there, degrees of freedom printed immediately before the statistic ("df = 28, t = 2.45") or
+   immediately after its p-value ("t = 2.45, p = .021, df = 28") count.
 3. Whether the test was one- or two-sided is read from the words of the sentence, else of the
-   paragraph (the nearest mention wins), or from a label on the p-value itself.
+   paragraph (the nearest mention within `PARAGRAPH_REACH` characters wins), or from a label on
+   the p-value itself.
 
 Everything is done on the normalised text and mapped back to the text as decoded, so the
 strings in a Claim are exactly as printed and its offsets point into the file's own text.
@@ -28,6 +31,8 @@ from .patterns import Library, load_library
 
 #: how far after a statistic its p-value may be printed
 WINDOW = 250
+#: how far from a statistic, within its paragraph, a mention of tails or design still counts
+PARAGRAPH_REACH = 1500
 
 _COMPARATORS = {
     "=": "=", "<": "<", ">": ">", "≤": "<=", "≥": ">=",
@@ -54,6 +59,9 @@ _CUES = {
 }
 _ALL_BEFORE = regex.compile(r"(?i:\ball|\bboth|\beach)\s+$")
 _WHITESPACE = regex.compile(r"\s+")
+_ONLY_SEPARATORS = regex.compile(r"[\s,;]*")
+#: how far before a statistic its degrees of freedom may be printed ("df = 2, 87, F = ...")
+_DF_BEFORE = 30
 
 
 def _comparator(printed: str) -> str:
@@ -110,8 +118,12 @@ class _Boundaries:
         sentence_start, sentence_end = self.sentence(position, text_length)
         value = self.nearest(cue, sentence_start, sentence_end, position)
         if value is None:
+            # Text without blank lines (hard-wrapped text, PDF text layers) is one "paragraph"
+            # from title to references; a mention further away than a long paragraph is not
+            # about this result.
             paragraph_start, paragraph_end = self.paragraph(position, text_length)
-            value = self.nearest(cue, paragraph_start, paragraph_end, position)
+            value = self.nearest(cue, max(paragraph_start, position - PARAGRAPH_REACH),
+                                 min(paragraph_end, position + PARAGRAPH_REACH), position)
         return value
 
 
@@ -132,6 +144,44 @@ def find_claims(document: Document, library: Library | None = None) -> list[Clai
 
 def _first(scanner: regex.Pattern, text: str, start: int, end: int) -> regex.Match | None:
     return scanner.search(text, start, end) if start < end else None
+
+
+def _df_just_before(library: Library, text: str, start: int, head_start: int) -> regex.Match | None:
+    """Degrees of freedom printed right before a statistic ("df = 28, t = 2.20, p = .036").
+
+    Only a df that nothing but a comma, semicolon or white space separates from the statistic
+    counts, and not one that as closely follows an earlier p-value ("t = 2.1, p = .04, df = 30;
+    t = 1.3, ..."): which of the two results it belongs to cannot be told, so neither gets it.
+    """
+    last = _last(library.scanner("df"), text, start, head_start)
+    if last is None or not _ONLY_SEPARATORS.fullmatch(text, last.end(), head_start):
+        return None
+    p_before = _last(library.scanner("p-value"), text, max(0, last.start() - _DF_BEFORE),
+                     last.start())
+    if p_before is not None and _ONLY_SEPARATORS.fullmatch(text, p_before.end(), last.start()):
+        return None
+    return last
+
+
+def _last(scanner: regex.Pattern, text: str, start: int, end: int) -> regex.Match | None:
+    last = None
+    for match in scanner.finditer(text, start, end):
+        last = match
+    return last
+
+
+def _df_just_after(library: Library, text: str, p_end: int, end: int,
+                   next_head: int) -> regex.Match | None:
+    """Degrees of freedom printed right after the p-value ("t = 2.20, p = .036, df = 28").
+
+    Not a df that the next statistic follows as closely: it may be that statistic's.
+    """
+    match = _first(library.scanner("df"), text, p_end, end)
+    if match is None or not _ONLY_SEPARATORS.fullmatch(text, p_end, match.start()):
+        return None
+    if next_head < len(text) and _ONLY_SEPARATORS.fullmatch(text, match.end(), next_head):
+        return None
+    return match
 
 
 def _claim_at(document: Document, library: Library, boundaries: _Boundaries,
@@ -167,7 +217,7 @@ def _claim_at(document: Document, library: Library, boundaries: _Boundaries,
         )
         tails_label = p_match.group("p_tails")
         if tails_label:
-            tails = "one" if tails_label in ("one", "1") else "two"
+            tails = "one" if tails_label.startswith(("one", "1")) else "two"
         end = p_match.end()
     elif ns_match is not None:
         p_value = PValue(comparator="ns", reported="")
@@ -176,7 +226,10 @@ def _claim_at(document: Document, library: Library, boundaries: _Boundaries,
     # Degrees of freedom or N printed after the statistic ("t = 2.45, df = 28").
     between_end = p_match.start() if p_match else window_end
     if not df:
-        df_match = _first(library.scanner("df"), text, head.end(), between_end)
+        df_match = _first(library.scanner("df"), text, head.end(), between_end) \
+            or _df_just_before(library, text, max(sentence_start, head.start() - _DF_BEFORE),
+                               head.start()) \
+            or (p_match and _df_just_after(library, text, p_match.end(), window_end, next_head))
         if df_match is not None:
             df = tuple(d for d in (printed(df_match, "df1"), printed(df_match, "df2")) if d)
     if n is None and not (pattern.test == "r" and df):
@@ -212,4 +265,4 @@ def _claim_at(document: Document, library: Library, boundaries: _Boundaries,
     )
 
 
-__all__ = ["find_claims", "WINDOW"]
+__all__ = ["find_claims", "WINDOW", "PARAGRAPH_REACH"]

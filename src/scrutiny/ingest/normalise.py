@@ -8,8 +8,10 @@ against one plain form, so this module maps every variant to it:
 * Unicode NFKC (superscripts, mathematical letters, ligatures, full-width forms, odd spaces);
 * every dash and minus variant to "-";
 * slanted and other variants of "≤" and "≥" to those two characters;
+* the increment sign "∆" to the Greek capital delta "Δ";
 * soft hyphens and zero-width characters removed;
-* a middle dot between digits (a decimal point in some journals' house style) to ".";
+* a middle dot between digits (a decimal point in some journals' house style) to ".", except
+  before a power of ten, where it is a times sign ("2.8·10⁻⁴", "3·10^-6");
 * end-of-line hyphenation of lower-case words joined ("signifi-\\ncant").
 
 The normalised text keeps the line breaks of the original. Because a few replacements change
@@ -34,12 +36,14 @@ _CHARACTER_MAP = {
     "\u2267": "\u2265",  # ≧
     "\u2a7e": "\u2265",  # ⩾
     "\u2265": "\u2265",
+    "\u2206": "\u0394",  # ∆ (increment) as PDFs print the delta of "∆χ2", "∆F", "∆df"
 }
 
-# Longest alternatives first: a decimal middle dot and a hyphenated line end are recognised in
-# context; any other non-ASCII run is examined character by character.
+# Longest alternatives first: a decimal middle dot (not one before a power of ten: "3·10⁻⁶"
+# multiplies) and a hyphenated line end are recognised in context; any other non-ASCII run is
+# examined character by character.
 _SPECIAL = regex.compile(
-    r"(?P<decimal>(?<=\d)[\u00b7\u2219](?=\d))"
+    r"(?P<decimal>(?<=\d)[\u00b7\u2219](?=\d)(?!10[ ]?(?:[\^\u207b\u2212\u2013-]|[\u2070\u00b9\u00b2\u00b3\u2074-\u2079])))"
     r"|(?P<hyphenation>(?<=[a-z])-[ \t]*\r?\n[ \t]*(?=[a-z]))"
     r"|(?P<run>[^\x00-\x7f]+)"
 )
