@@ -13,7 +13,7 @@ from pathlib import Path
 import pytest
 import regex
 
-from scrutiny.extract import PARAGRAPH_REACH, find_claims
+from scrutiny.extract import PARAGRAPH_REACH, find_claims, statistic_heads
 from scrutiny.ingest import document_from_text
 from scrutiny.patterns import load_library
 
@@ -156,3 +156,27 @@ def test_pattern_rejects_its_counter_examples(pattern, example):
     normalised = document_from_text(example).normalised
     found = pattern.compiled.search(normalised)
     assert found is None, f"{pattern.id} matches {found.group()!r} in {example!r}"
+
+
+@pytest.mark.parametrize("pattern, example", [
+    param for param in _examples("must_match") if param.values[0].kind == "statistic"])
+def test_every_statistic_example_is_found_by_the_symbol_scan(pattern, example):
+    # statistic_heads tries the patterns only where a statistic symbol starts a word; this
+    # fails when a pattern learns to start with a symbol the scan does not know
+    normalised = document_from_text(example).normalised
+    expected = pattern.compiled.search(normalised)
+    heads = statistic_heads(normalised, load_library())
+    assert any(head.start() <= expected.start() < head.end() for head in heads), (
+        f"no head found for {example!r}")
+
+
+@pytest.mark.parametrize("sentence, tails, design", [
+    ("One-tailed tests were used for both predictions. Males sang more, t(38) = 1.71, p = .048.",
+     "one", None),
+    ("Directional tests were used. Males sang more, t(38) = 1.71, p = .048.", "one", None),
+    ("Paired counts differed, t(2408) = 4.10, p < .001.", None, "within"),
+    ("Two-sided tests throughout: Welch's t(37.6) = 2.10, p = .043.", "two", "between"),
+])
+def test_cue_words_count_in_any_case(sentence, tails, design):
+    [claim] = find_claims(document_from_text(sentence))
+    assert (claim.tails_stated, claim.design_stated) == (tails, design)

@@ -39,14 +39,17 @@ _CHARACTER_MAP = {
     "\u2206": "\u0394",  # ∆ (increment) as PDFs print the delta of "∆χ2", "∆F", "∆df"
 }
 
-# Longest alternatives first: a decimal middle dot (not one before a power of ten: "3·10⁻⁶"
-# multiplies) and a hyphenated line end are recognised in context; any other non-ASCII run is
-# examined character by character.
-_SPECIAL = regex.compile(
-    r"(?P<decimal>(?<=\d)[\u00b7\u2219](?=\d)(?!10[ ]?(?:[\^\u207b\u2212\u2013-]|[\u2070\u00b9\u00b2\u00b3\u2074-\u2079])))"
-    r"|(?P<hyphenation>(?<=[a-z])-[ \t]*\r?\n[ \t]*(?=[a-z]))"
-    r"|(?P<run>[^\x00-\x7f]+)"
-)
+_MIDDLE_DOTS = "\u00b7\u2219"
+# A middle dot between digits is a decimal point ("0·03"), except before a power of ten, where
+# it multiplies ("3·10⁻⁶").
+_POWER_OF_TEN = regex.compile(
+    r"10[ ]?(?:[\^\u207b\u2212\u2013-]|[\u2070\u00b9\u00b2\u00b3\u2074-\u2079])")
+
+# One pass finds every place that may need a change: a hyphen at a line end, and runs of
+# non-ASCII characters (with hyphens, so that "-" next to a dash is one run). Both start with a
+# character from a small set, which lets the regex engine skip plain ASCII text quickly; the
+# context of each candidate is then examined in Python.
+_CANDIDATES = regex.compile(r"-[ \t]*\r?\n[ \t]*|[^\x00-\x2c\x2e-\x7f]+")
 
 
 def _map_character(ch: str) -> str:
@@ -62,16 +65,31 @@ def _map_character(ch: str) -> str:
 _character_cache: dict[str, str] = {}
 
 
-def _normalise_run(run: str) -> str:
-    if unicodedata.is_normalized("NFKC", run) and not any(ch in _CHARACTER_MAP for ch in run):
+def _normalise_run(text: str, start: int, run: str) -> str:
+    if (unicodedata.is_normalized("NFKC", run) and not any(ch in _CHARACTER_MAP for ch in run)
+            and not any(ch in _MIDDLE_DOTS for ch in run)):
         return run
     out = []
-    for ch in run:
+    for offset, ch in enumerate(run):
+        if ch in _MIDDLE_DOTS:
+            position = start + offset
+            if (position > 0 and text[position - 1].isdigit()
+                    and text[position + 1:position + 2].isdigit()
+                    and not _POWER_OF_TEN.match(text, position + 1)):
+                out.append(".")
+                continue
         mapped = _character_cache.get(ch)
         if mapped is None:
             mapped = _character_cache[ch] = _map_character(ch)
         out.append(mapped)
     return "".join(out)
+
+
+def _is_hyphenation(text: str, start: int, end: int) -> bool:
+    """A lower-case word broken at a line end: "signifi-\ncant" (not "3-\n5", not "ANOVA-")."""
+    before = text[start - 1] if start > 0 else ""
+    after = text[end] if end < len(text) else ""
+    return "a" <= before <= "z" and "a" <= after <= "z"
 
 
 def normalise(text: str) -> tuple[str, list[tuple[int, int]]]:
@@ -84,16 +102,17 @@ def normalise(text: str) -> tuple[str, list[tuple[int, int]]]:
     breakpoints: list[tuple[int, int]] = []
     last = 0
     shift = 0  # len(normalised so far) - len(original so far)
-    for match in _SPECIAL.finditer(text):
-        start, end = match.span()
-        kind = match.lastgroup
+    for match in _CANDIDATES.finditer(text):
         original = match.group()
-        if kind == "decimal":
-            replacement = "."
-        elif kind == "hyphenation":
+        if original == "-":
+            continue
+        start, end = match.span()
+        if "\n" in original:
+            if not _is_hyphenation(text, start, end):
+                continue
             replacement = ""
         else:
-            replacement = _normalise_run(original)
+            replacement = _normalise_run(text, start, original)
         if replacement == original:
             continue
         pieces.append(text[last:start])
