@@ -180,3 +180,17 @@ def test_every_statistic_example_is_found_by_the_symbol_scan(pattern, example):
 def test_cue_words_count_in_any_case(sentence, tails, design):
     [claim] = find_claims(document_from_text(sentence))
     assert (claim.tails_stated, claim.design_stated) == (tails, design)
+
+
+def test_every_keyword_pattern_example_contains_a_keyword():
+    # patterns with keywords are searched only near them; an example without one would be missed
+    for pattern in load_library().patterns:
+        for example in pattern.must_match if pattern.keywords else ():
+            assert any(k in example.lower() for k in pattern.keywords), (pattern.id, example)
+
+
+def test_cue_words_are_found_anywhere_in_a_long_text():
+    filler = "Birds were ringed, weighed and released at the net. " * 400
+    text = filler + "All tests were One-Tailed. Chicks fledged sooner, t(28) = 2.20, p = .018. " + filler
+    [claim] = find_claims(document_from_text(text))
+    assert claim.tails_stated == "one"

@@ -24,11 +24,12 @@ from __future__ import annotations
 import re
 from bisect import bisect_left, bisect_right
 from dataclasses import dataclass
+from typing import Iterator
 
 import regex
 
 from .model import Claim, Document, PValue
-from .patterns import Library, load_library
+from .patterns import Library, Pattern, load_library
 
 #: how far after a statistic its p-value may be printed
 WINDOW = 250
@@ -42,11 +43,13 @@ _COMPARATORS = {
 
 # A sentence ends at ".", "!" or "?" followed by white space and a capital or an opening
 # bracket, unless the full stop ends a common abbreviation; a blank line ends it too.
+# (The pattern starts with the punctuation rather than a lookbehind: the regex engine can then
+# skip quickly to the few places where a sentence may end.)
 _SENTENCE_BREAK = regex.compile(
     r"""
-    (?<= [.!?]["'”’)]? )
+    [.!?] ["'”’)]?
     (?<! \b (?: al | vs | e\.g | i\.e | cf | Fig | Figs | Eq | Eqs | Tab | No | approx | ca
-              | resp | Dr | Mr | Ms | Mrs | St | Ref | Refs | Vol | Suppl | et | viz ) \. )
+              | resp | Dr | Mr | Ms | Mrs | St | Ref | Refs | Vol | Suppl | et | viz ) \. ["'”’)]? )
     \s+ (?= [A-Z(\["“‘] )
     | \n [ \t]* \n \s*
     """,
@@ -73,6 +76,39 @@ def _comparator(printed: str) -> str:
     return _COMPARATORS.get(compact, compact)
 
 
+#: how far from one of its keywords a match of a keyword pattern may start or end
+_KEYWORD_REACH = 80
+
+
+def _matches_near_keywords(pattern: Pattern, text: str,
+                           lowered: str | None) -> Iterator[regex.Match]:
+    """Every match of `pattern` in `text`, searching only around the pattern's keywords.
+
+    Finding a literal word is far cheaper than running a case-insensitive pattern over a whole
+    manuscript, and cue words are rare; where a pattern has no keywords (or `lowered` is None)
+    the whole text is searched.
+    """
+    if lowered is None or not pattern.keywords:
+        yield from pattern.compiled.finditer(text)
+        return
+    windows = []
+    for keyword in pattern.keywords:
+        found = lowered.find(keyword)
+        while found != -1:
+            windows.append((max(0, found - _KEYWORD_REACH),
+                            found + len(keyword) + _KEYWORD_REACH))
+            found = lowered.find(keyword, found + 1)
+    windows.sort()
+    merged: list[list[int]] = []
+    for start, end in windows:
+        if merged and start <= merged[-1][1]:
+            merged[-1][1] = max(merged[-1][1], end)
+        else:
+            merged.append([start, end])
+    for start, end in merged:
+        yield from pattern.compiled.finditer(text, start, min(end, len(text)))
+
+
 @dataclass(frozen=True)
 class _Boundaries:
     """Sentence and paragraph starts and tails mentions of one document, found in one pass."""
@@ -86,10 +122,14 @@ class _Boundaries:
     def of(cls, text: str, library: Library) -> "_Boundaries":
         sentences = [0] + [m.end() for m in _SENTENCE_BREAK.finditer(text)]
         paragraphs = [0] + [m.end() for m in _PARAGRAPH_BREAK.finditer(text)]
+        lowered = text.lower()
+        if len(lowered) != len(text):  # lower-casing changed offsets (a rare letter): no shortcut
+            lowered = None
         cues: dict[str, list[tuple[int, str]]] = {}
         for cue, kinds in _CUES.items():
             mentions = [(m.start(), value) for kind, value in kinds
-                        for m in library.scanner(kind).finditer(text)]
+                        for pattern in library.of_kind(kind)
+                        for m in _matches_near_keywords(pattern, text, lowered)]
             cues[cue] = sorted(mentions)
         return cls(sentences, paragraphs, cues)
 

@@ -44,6 +44,9 @@ class Pattern:
     needs_p: bool = False
     must_match: tuple[str, ...] = ()
     must_not_match: tuple[str, ...] = ()
+    #: lower-case words of which every match contains at least one; when given, a whole-text
+    #: search looks only near them (a test checks the examples against them)
+    keywords: tuple[str, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -148,6 +151,7 @@ def load_library(folder: str | None = None) -> Library:
                 needs_p=bool(entry.get("needs_p", False)),
                 must_match=tuple(entry.get("must_match", ())),
                 must_not_match=tuple(entry.get("must_not_match", ())),
+                keywords=tuple(k.lower() for k in entry.get("keywords", ())),
             ))
     missing = [kind for kind in KINDS if not any(p.kind == kind for p in patterns)]
     if missing:
