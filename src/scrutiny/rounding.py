@@ -13,7 +13,9 @@ without a leading zero (".021"), stray spaces inside a number, and scientific no
 
 from __future__ import annotations
 
+import functools
 import math
+import re
 from dataclasses import dataclass
 
 import regex
@@ -54,8 +56,20 @@ class PrintedNumber:
         return Interval(self.value - self.half_unit, self.value + self.half_unit)
 
 
+#: the common case, a plain decimal such as "2.45", "-.32" or "28", read without any rewriting
+_SIMPLE = re.compile(r"-?(\d*)(?:\.(\d+))?")
+
+
+@functools.lru_cache(maxsize=65536)
 def parse_printed(printed: str) -> PrintedNumber:
-    """Read a printed number; raise `UnreadableNumber` if it is not one."""
+    """Read a printed number; raise `UnreadableNumber` if it is not one.
+
+    Cached: manuscripts print the same strings ("28", ".05", "< .001") again and again.
+    """
+    simple = _SIMPLE.fullmatch(printed)
+    if simple and (simple.group(1) or simple.group(2)):
+        decimals = len(simple.group(2) or "")
+        return PrintedNumber(float(printed), 0.5 * 10.0 ** -decimals, decimals)
     text = normalise_fragment(_TIMES_DOT.sub("×", printed)).strip().replace(" ", "")
     sign = 1.0
     if text.startswith("-"):
