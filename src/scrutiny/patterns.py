@@ -56,6 +56,8 @@ class Library:
     patterns: tuple[Pattern, ...]
     by_kind: dict[str, tuple[Pattern, ...]]
     scanners: dict[str, regex.Pattern]
+    #: per kind, the number of the group that wraps each pattern's branch in the scanner
+    branch_groups: dict[str, tuple[int, ...]]
 
     def of_kind(self, kind: str) -> tuple[Pattern, ...]:
         return self.by_kind[kind]
@@ -65,8 +67,9 @@ class Library:
 
     def matched_pattern(self, kind: str, match: regex.Match) -> Pattern:
         """Which pattern of `kind` produced a match of `scanner(kind)`."""
-        for index, pattern in enumerate(self.of_kind(kind)):
-            if match.group(f"_{index}") is not None:
+        groups = match.groups()
+        for pattern, group in zip(self.by_kind[kind], self.branch_groups[kind]):
+            if groups[group - 1] is not None:
                 return pattern
         raise LookupError("match does not come from this scanner")
 
@@ -158,4 +161,7 @@ def load_library(folder: str | None = None) -> Library:
         raise PatternError(f"no patterns of kind {', '.join(missing)}")
     by_kind = {kind: tuple(p for p in patterns if p.kind == kind) for kind in KINDS}
     scanners = {kind: _combine(members) for kind, members in by_kind.items()}
-    return Library(patterns=tuple(patterns), by_kind=by_kind, scanners=scanners)
+    branch_groups = {kind: tuple(scanner.groupindex[f"_{i}"] for i in range(len(by_kind[kind])))
+                     for kind, scanner in scanners.items()}
+    return Library(patterns=tuple(patterns), by_kind=by_kind, scanners=scanners,
+                   branch_groups=branch_groups)
