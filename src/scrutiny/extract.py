@@ -81,23 +81,25 @@ _KEYWORD_REACH = 80
 
 
 def _matches_near_keywords(pattern: Pattern, text: str,
-                           lowered: str | None) -> Iterator[regex.Match]:
+                           lowered: bytes | None) -> Iterator[regex.Match]:
     """Every match of `pattern` in `text`, searching only around the pattern's keywords.
 
     Finding a literal word is far cheaper than running a case-insensitive pattern over a whole
-    manuscript, and cue words are rare; where a pattern has no keywords (or `lowered` is None)
-    the whole text is searched.
+    manuscript, and cue words are rare. `lowered` is the text as lower-case ASCII bytes, offset
+    for offset; where a pattern has no keywords (or `lowered` is None) the whole text is
+    searched.
     """
     if lowered is None or not pattern.keywords:
         yield from pattern.compiled.finditer(text)
         return
     windows = []
     for keyword in pattern.keywords:
-        found = lowered.find(keyword)
+        literal = keyword.encode("ascii")
+        found = lowered.find(literal)
         while found != -1:
             windows.append((max(0, found - _KEYWORD_REACH),
-                            found + len(keyword) + _KEYWORD_REACH))
-            found = lowered.find(keyword, found + 1)
+                            found + len(literal) + _KEYWORD_REACH))
+            found = lowered.find(literal, found + 1)
     windows.sort()
     merged: list[list[int]] = []
     for start, end in windows:
@@ -122,9 +124,10 @@ class _Boundaries:
     def of(cls, text: str, library: Library) -> "_Boundaries":
         sentences = [0] + [m.end() for m in _SENTENCE_BREAK.finditer(text)]
         paragraphs = [0] + [m.end() for m in _PARAGRAPH_BREAK.finditer(text)]
-        lowered = text.lower()
-        if len(lowered) != len(text):  # lower-casing changed offsets (a rare letter): no shortcut
-            lowered = None
+        # Keywords are ASCII: an ASCII copy (every other character as "?") keeps the offsets and
+        # costs one byte a character, where str.lower() of a non-ASCII text can briefly need
+        # twelve.
+        lowered = text.encode("ascii", "replace").lower()
         cues: dict[str, list[tuple[int, str]]] = {}
         for cue, kinds in _CUES.items():
             mentions = [(m.start(), value) for kind, value in kinds

@@ -46,7 +46,7 @@ class Status(str, enum.Enum):
 TEST_FAMILIES = ("t", "F", "chi2", "r", "z")
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Location:
     """Where a Claim is printed.
 
@@ -61,7 +61,7 @@ class Location:
     page: int | None = None
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Document:
     """One input after ingest.
 
@@ -126,7 +126,7 @@ class OffsetMap:
         return Location(start=start, end=end, line=line, page=None)
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class PValue:
     """A p-value as printed.
 
@@ -141,7 +141,7 @@ class PValue:
     adjusted: str | None = None
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Claim:
     """One reported test result, exactly as the text prints it.
 
@@ -169,7 +169,7 @@ class Claim:
     pattern: str = ""
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Interval:
     """A closed interval [low, high] of real numbers."""
 
@@ -184,7 +184,7 @@ class Interval:
         return self.low <= value <= self.high
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Effect:
     """An effect size implied by a Claim, with the assumption it rests on.
 
@@ -201,7 +201,7 @@ class Effect:
     confidence: float | None = None
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Recomputed:
     """Numbers derived from a Claim; no text, no judgement.
 
@@ -224,7 +224,7 @@ class Recomputed:
     reason: str | None = None
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Flag:
     """One problem a check found."""
 
@@ -234,7 +234,7 @@ class Flag:
     details: Mapping[str, float | str | None] = field(default_factory=dict, hash=False)
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class ClaimResult:
     """A Claim with everything the later stages found about it."""
 
@@ -246,7 +246,7 @@ class ClaimResult:
     reason: str | None = None
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class DocumentResult:
     """Everything found in one input, or why it could not be read."""
 
@@ -262,7 +262,7 @@ class DocumentResult:
         return not self.errors
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Settings:
     """Everything a user can tune; one frozen object passed to every stage that needs it.
 
@@ -295,7 +295,7 @@ class Settings:
         }
 
 
-@dataclass(frozen=True)
+@dataclass(frozen=True, slots=True)
 class Run:
     """The result of checking one or more inputs with one set of Settings."""
 

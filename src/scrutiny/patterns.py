@@ -98,6 +98,12 @@ def _expand(source: str, fragments: dict[str, str], where: str, depth: int = 0) 
     return _FRAGMENT.sub(substitute, source)
 
 
+def _keyword(word: str, where: str) -> str:
+    if not word.isascii() or not word.strip():
+        raise PatternError(f"{where}: keywords must be ASCII words, not {word!r}")
+    return word.lower()
+
+
 def _combine(patterns: tuple[Pattern, ...]) -> regex.Pattern:
     # Each alternative is wrapped in a group named after its position so that the extractor can
     # tell which pattern matched; `regex` allows the same group name (df1, ...) in every branch.
@@ -154,7 +160,7 @@ def load_library(folder: str | None = None) -> Library:
                 needs_p=bool(entry.get("needs_p", False)),
                 must_match=tuple(entry.get("must_match", ())),
                 must_not_match=tuple(entry.get("must_not_match", ())),
-                keywords=tuple(k.lower() for k in entry.get("keywords", ())),
+                keywords=tuple(_keyword(k, where) for k in entry.get("keywords", ())),
             ))
     missing = [kind for kind in KINDS if not any(p.kind == kind for p in patterns)]
     if missing:
