@@ -276,6 +276,9 @@ def _claim_at(document: Document, library: Library, boundaries: _Boundaries,
     pattern = library.matched_pattern("statistic", head)
     sentence_start, sentence_end = boundaries.sentence(head.start(), len(text))
     window_end = min(next_head, sentence_end, head.end() + WINDOW)
+    other_test = _first(library.scanner("other-test"), text, head.end(), window_end)
+    if other_test is not None:  # a p-value after it is that test's, not this one's
+        window_end = other_test.start()
 
     p_match = _first(library.scanner("p-value"), text, head.end(), window_end)
     ns_end = p_match.start() if p_match else window_end

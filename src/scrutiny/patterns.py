@@ -21,8 +21,8 @@ else:  # pragma: no cover - exercised on Python 3.10 only
     import tomli as tomllib
 
 #: kinds of pattern the extractor uses, in the order it uses them
-KINDS = ("statistic", "not-a-result", "p-value", "not-significant", "df", "sample-size",
-         "tails-one", "tails-two", "design-within", "design-between")
+KINDS = ("statistic", "not-a-result", "other-test", "p-value", "not-significant", "df",
+         "sample-size", "tails-one", "tails-two", "design-within", "design-between")
 
 _FRAGMENT = regex.compile(r"<<([a-z_]+)>>")
 _FLAGS = regex.VERBOSE | regex.VERSION0
