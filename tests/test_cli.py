@@ -128,14 +128,16 @@ def test_folders_are_searched_and_other_files_counted(manuscripts, tmp_path):
     manuscripts("paper/nested/appendix.txt", MISMATCH)
     manuscripts("paper/figure.png", b"\x89PNG\r\n\x1a\n")
     manuscripts("paper/.hidden.txt", MISMATCH)
+    manuscripts("paper/.git/config", "[core]")
     code, out, _ = run("check", str(tmp_path / "paper"), "--format", "json")
     report = json.loads(out)
     assert [os.path.basename(d["path"]) for d in report["documents"]] == ["results.md",
                                                                            "appendix.txt"]
-    assert [os.path.basename(p) for p in report["skipped"]] == ["figure.png"]
+    assert [os.path.basename(p) for p in report["skipped"]] == [".git", ".hidden.txt",
+                                                                 "figure.png"]
     assert code == 1
     text = run("check", str(tmp_path / "paper"))[1]
-    assert "1 other file skipped (not a manuscript format)" in text
+    assert "3 other files skipped (hidden, or not a manuscript format)" in text
 
 
 def test_a_file_named_twice_is_checked_once(manuscripts):

@@ -75,9 +75,9 @@ def collect_inputs(paths: Iterable[str]) -> tuple[list[str], list[str]]:
     """Expand folders (recursively, in sorted order) into manuscript files.
 
     Returns `(inputs, skipped)`: files named explicitly are always inputs (their content
-    decides their format); inside folders, files whose extension is not a manuscript format
-    are listed in `skipped` so that the summary can count them. Hidden files and folders
-    (".git", ".DS_Store") are passed over silently.
+    decides their format); inside folders, files whose extension is not a manuscript format,
+    and hidden files and folders (".git", ".DS_Store"; a folder is not entered), are listed in
+    `skipped` so that the summary can count them: nothing is passed over silently.
     """
     inputs: list[str] = []
     skipped: list[str] = []
@@ -92,12 +92,13 @@ def collect_inputs(paths: Iterable[str]) -> tuple[list[str], list[str]]:
     for name in paths:
         if name != STDIN and os.path.isdir(name):
             for folder, subfolders, files in os.walk(name):
+                skipped.extend(os.path.join(folder, d) for d in sorted(subfolders)
+                               if d.startswith("."))
                 subfolders[:] = sorted(d for d in subfolders if not d.startswith("."))
                 for file_name in sorted(files):
-                    if file_name.startswith("."):
-                        continue
                     full = os.path.join(folder, file_name)
-                    if Path(file_name).suffix.lower() in MANUSCRIPT_SUFFIXES:
+                    if (not file_name.startswith(".")
+                            and Path(file_name).suffix.lower() in MANUSCRIPT_SUFFIXES):
                         add(full)
                     else:
                         skipped.append(full)

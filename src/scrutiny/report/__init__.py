@@ -61,7 +61,7 @@ class Summary:
             inputs += f" ({self.unreadable} could not be read)"
         if self.skipped:
             inputs += f", {self.skipped} other file{'s' if self.skipped != 1 else ''} skipped " \
-                      "(not a manuscript format)"
+                      "(hidden, or not a manuscript format)"
         return f"{inputs}: " + ", ".join(parts) + "."
 
 
