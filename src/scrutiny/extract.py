@@ -2,9 +2,11 @@
 
 How a result is found:
 
-1. One combined regex over the statistic patterns in `patterns/` finds each statistic head
-   ("t(28) = 2.45", "F(2, 87) = 4.12", "χ2(1, N = 80) = 4.2", "F < 1").
-2. After each head, a *window* runs to the start of the next head, the end of the sentence or
+1. The statistic patterns in `patterns/` (tried where a statistic symbol starts a word) find
+   each statistic head ("t(28) = 2.45", "F(2, 87) = 4.12", "χ2(1, N = 80) = 4.2", "F < 1"),
+   unless a not-a-result pattern matches just before it ("critical t(28) = 2.05").
+2. After each head, a *window* runs to the start of the next head, the end of the sentence,
+   the start of a test scrutiny does not recompute ("U = 312": a p after it is that test's) or
    250 characters, whichever comes first. The first p-value (or "ns") in the window belongs to
    the statistic, so that whatever a manuscript prints in between ("MSE = 2,506.01",
    "ηp2 = .12", a sphericity epsilon) does not matter. Degrees of freedom and N printed after
