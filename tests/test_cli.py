@@ -209,7 +209,8 @@ def test_json_follows_the_contract(monkeypatch):
     claim = report["documents"][0]["claims"][0]
     assert set(claim) >= {"id", "text", "location", "test", "df", "statistic", "n", "p",
                           "status", "effect", "evidence", "flags"}
-    assert set(claim["location"]) == {"page", "line", "start", "end"}
+    assert set(claim["location"]) == {"page", "line", "start", "end", "file", "section",
+                                      "paragraph", "cell", "boxes"}
     assert set(claim["p"]) >= {"comparator", "reported", "tails_stated", "recomputed", "low",
                                "high"}
     assert claim["text"] == "t(28) = 2.45, p = .021"

@@ -18,7 +18,14 @@ from typing import BinaryIO, Iterable
 from .check import Context, run_checks, verdict
 from .errors import InputError
 from .extract import find_claims
-from .ingest import MANUSCRIPT_SUFFIXES, document_from_bytes, document_from_text, read_document
+from .ingest import (
+    document_from_bytes,
+    document_from_text,
+    needs_guard,
+    manuscript_suffixes,
+    read_document,
+)
+from .ingest.guard import read_guarded
 from .model import ClaimResult, Document, DocumentResult, Run, Settings
 from .recompute import recompute
 
@@ -59,7 +66,10 @@ def check_file(path: str | os.PathLike[str], settings: Settings | None = None) -
     if size > MAX_INPUT_BYTES:
         raise InputError(name, f"too large ({size / 2**20:,.0f} MB; the limit is "
                                f"{MAX_INPUT_BYTES / 2**20:,.0f} MB)")
-    return check_document(read_document(name), settings)
+    # Plain text is decoded here; every other format is parsed in a child process with a time
+    # and memory ceiling, so that a hostile or broken file cannot hang or sink the batch.
+    document = read_guarded(name) if needs_guard(name) else read_document(name)
+    return check_document(document, settings)
 
 
 def check_stream(stream: BinaryIO, settings: Settings | None = None,
@@ -81,6 +91,7 @@ def collect_inputs(paths: Iterable[str]) -> tuple[list[str], list[str]]:
     """
     inputs: list[str] = []
     skipped: list[str] = []
+    suffixes = manuscript_suffixes()
     seen: set[str] = set()
 
     def add(name: str) -> None:
@@ -98,7 +109,7 @@ def collect_inputs(paths: Iterable[str]) -> tuple[list[str], list[str]]:
                 for file_name in sorted(files):
                     full = os.path.join(folder, file_name)
                     if (not file_name.startswith(".")
-                            and Path(file_name).suffix.lower() in MANUSCRIPT_SUFFIXES):
+                            and Path(file_name).suffix.lower() in suffixes):
                         add(full)
                     else:
                         skipped.append(full)

@@ -47,27 +47,102 @@ TEST_FAMILIES = ("t", "F", "chi2", "r", "z")
 
 
 @dataclass(frozen=True, slots=True)
+class Box:
+    """A rectangle on a PDF page, in PDF points from the page's top-left corner."""
+
+    page: int
+    x0: float
+    top: float
+    x1: float
+    bottom: float
+
+
+@dataclass(frozen=True, slots=True)
 class Location:
     """Where a Claim is printed.
 
-    `start`/`end` are character offsets into the text as decoded from the file, before any
-    normalisation; `line` is 1-based (per page for PDFs, per file for text); `page` is 1-based
-    or None for formats without pages.
+    `start`/`end` are character offsets into the Document's `text` (the text as decoded from
+    the file, or as a reader extracted it from a PDF, Word, LaTeX or markup file, before any
+    normalisation); `line` is 1-based (per page for PDFs, per source file for text and LaTeX,
+    in the extracted text for Word and markup); `page` is 1-based or None for formats without
+    pages. The other fields say more where the format has it: the LaTeX `file` (after
+    `\\input`), the `section` title (HTML, JATS), the `paragraph` number (Word, HTML, JATS), the
+    table `cell` ("table 2, row 3, column 1") and the `boxes` the claim covers on a PDF page.
     """
 
     start: int
     end: int
     line: int
     page: int | None = None
+    file: str | None = None
+    section: str | None = None
+    paragraph: int | None = None
+    cell: str | None = None
+    boxes: tuple[Box, ...] = ()
+
+
+@dataclass(frozen=True, slots=True)
+class Segment:
+    """A stretch of a Document's text that comes from one place in the source.
+
+    A reader cuts its text into segments at every change of page, file, section, paragraph
+    or table cell; `start` is the segment's first offset in the Document's `text` and `line`
+    the source line number of its first line (1 for a new page, a new file or a paragraph).
+    """
+
+    start: int
+    line: int = 1
+    page: int | None = None
+    file: str | None = None
+    section: str | None = None
+    paragraph: int | None = None
+    cell: str | None = None
+
+
+class Geometry:
+    """Where each character of a PDF's text sits on its page, for the boxes of a claim.
+
+    `pages` holds, per page, the offset in the Document's text where that page's text starts and
+    an (n, 4) float array of boxes (x0, top, x1, bottom; NaN for characters the reader added,
+    such as line breaks) for the n characters that follow.
+    """
+
+    __slots__ = ("pages",)
+
+    def __init__(self, pages: list[tuple[int, "object"]]) -> None:
+        self.pages = pages  # [(text offset, numpy array (n, 4)), ...] in page order
+
+    def boxes(self, start: int, end: int) -> tuple[Box, ...]:
+        """One box per printed line that the span [start, end) touches."""
+        import numpy
+
+        found: list[Box] = []
+        for number, (offset, array) in enumerate(self.pages, start=1):
+            low, high = max(start, offset), min(end, offset + len(array))
+            if low >= high:
+                continue
+            chars = array[low - offset:high - offset]
+            chars = chars[~numpy.isnan(chars).any(axis=1)]
+            if not len(chars):
+                continue
+            # a new line starts where the next character sits clearly lower (or left, after a
+            # column break) than the previous one
+            breaks = numpy.nonzero((chars[1:, 1] > chars[:-1, 3] - 0.5 * (chars[:-1, 3] - chars[:-1, 1]))
+                                   | (chars[1:, 0] < chars[:-1, 0] - 50))[0] + 1
+            for line in numpy.split(chars, breaks):
+                found.append(Box(number, float(line[:, 0].min()), float(line[:, 1].min()),
+                                 float(line[:, 2].max()), float(line[:, 3].max())))
+        return tuple(found)
 
 
 @dataclass(frozen=True, slots=True)
 class Document:
     """One input after ingest.
 
-    `text` is the text as decoded from the file; `normalised` is the same text after the
-    normalisation that extraction relies on (Unicode NFKC, dashes to "-", ...). `offset_map`
-    maps an offset in `normalised` back to an offset in `text`.
+    `text` is the text as decoded from the file (or extracted from it); `normalised` is the same
+    text after the normalisation that extraction relies on (Unicode NFKC, dashes to "-", ...).
+    `offset_map` maps an offset in `normalised` back to an offset in `text` and knows where in
+    the source each offset of `text` comes from.
     """
 
     path: str
@@ -77,6 +152,8 @@ class Document:
     offset_map: "OffsetMap"
     encoding: str | None = None
     pages: int | None = None
+    #: what the reader noticed and repaired or could not ("running heads removed", ...)
+    notes: tuple[str, ...] = ()
 
     def original_offset(self, normalised_offset: int) -> int:
         return self.offset_map.to_original(normalised_offset)
@@ -87,27 +164,33 @@ class Document:
 
 
 class OffsetMap:
-    """Maps offsets in a normalised text back to the decoded text and gives line numbers.
+    """Maps offsets in a normalised text back to the decoded text and gives locations.
 
     Normalisation mostly replaces one character by one character, so the map is stored as a
     short list of breakpoints `(normalised_offset, original_offset)` where the two texts shift
-    against each other; between breakpoints the offsets move together.
+    against each other; between breakpoints the offsets move together. `segments` (sorted by
+    start) say where in the source each stretch of the text comes from; `geometry`, for PDFs,
+    where each character sits on its page.
     """
 
-    __slots__ = ("_norm_points", "_orig_points", "_line_starts", "_page_starts")
+    __slots__ = ("_norm_points", "_orig_points", "_line_starts", "_segments", "_segment_starts",
+                 "_geometry")
 
     def __init__(
         self,
         breakpoints: list[tuple[int, int]],
         line_starts: list[int],
-        page_starts: tuple[int, ...] = (),
+        segments: tuple[Segment, ...] = (),
+        geometry: Geometry | None = None,
     ) -> None:
         if not breakpoints or breakpoints[0] != (0, 0):
             breakpoints = [(0, 0), *breakpoints]
         self._norm_points = [b[0] for b in breakpoints]
         self._orig_points = [b[1] for b in breakpoints]
         self._line_starts = line_starts
-        self._page_starts = page_starts
+        self._segments = segments or (Segment(0),)
+        self._segment_starts = [segment.start for segment in self._segments]
+        self._geometry = geometry
 
     def to_original(self, normalised_offset: int) -> int:
         if len(self._norm_points) == 1:  # normalisation changed no lengths: offsets agree
@@ -116,14 +199,15 @@ class OffsetMap:
         return self._orig_points[i] + (normalised_offset - self._norm_points[i])
 
     def location(self, start: int, end: int) -> Location:
-        if self._page_starts:
-            page_index = bisect_right(self._page_starts, start) - 1
-            page_start = self._page_starts[page_index]
-            first_line = bisect_right(self._line_starts, page_start - 1)
-            line = bisect_right(self._line_starts, start) - first_line + 1
-            return Location(start=start, end=end, line=line, page=page_index + 1)
-        line = bisect_right(self._line_starts, start)
-        return Location(start=start, end=end, line=line, page=None)
+        segment = self._segments[bisect_right(self._segment_starts, start) - 1]
+        lines_before = (bisect_right(self._line_starts, start)
+                        - bisect_right(self._line_starts, segment.start))
+        return Location(
+            start=start, end=end, line=segment.line + lines_before, page=segment.page,
+            file=segment.file, section=segment.section, paragraph=segment.paragraph,
+            cell=segment.cell,
+            boxes=self._geometry.boxes(start, end) if self._geometry is not None else (),
+        )
 
 
 @dataclass(frozen=True, slots=True)

@@ -1,5 +1,8 @@
 """Plain-text and Markdown manuscripts: decode the bytes, nothing more.
 
+The reader of last resort: it takes any input that no other reader recognised and that does not
+start with the signature of a binary format.
+
 Manuscripts arrive in whatever encoding the author's editor wrote. The order of attempts is
 fixed and stated: a byte-order mark decides (UTF-8, UTF-16, UTF-32); otherwise UTF-8 if the
 bytes are valid UTF-8; otherwise UTF-16 without a mark when every other byte is NUL (text with
@@ -10,6 +13,14 @@ any byte sequence. The encoding used is reported with the document.
 from __future__ import annotations
 
 import codecs
+from pathlib import Path
+
+from ..errors import InputError
+from ..model import Document
+
+FORMAT = "text"
+ALSO = ("markdown",)
+SUFFIXES = (".txt", ".text", ".md", ".markdown", ".rst")
 
 _BOMS = (
     (codecs.BOM_UTF32_LE, "utf-32-le", "utf-32"),
@@ -69,3 +80,24 @@ def decode(data: bytes) -> tuple[str, str]:
         return data.decode("cp1252"), "windows-1252"
     except UnicodeDecodeError:
         return data.decode("latin-1"), "latin-1"
+
+
+def sniff(data: bytes, path: str) -> str | None:
+    from . import _UNSUPPORTED
+
+    head = data[:1024].lstrip()
+    if any(head.startswith(signature) for signature, _ in _UNSUPPORTED):
+        return None
+    return "markdown" if Path(path).suffix.lower() in (".md", ".markdown") else "text"
+
+
+def read(data: bytes, path: str) -> Document:
+    from . import build_document
+
+    try:
+        text, encoding = decode(data)
+    except NotText as exc:
+        raise InputError(path, str(exc)) from None
+    if not text.strip():
+        raise InputError(path, "empty file (only white space)")
+    return build_document(path, sniff(data, path) or "text", text, encoding=encoding)

@@ -11,7 +11,7 @@ import math
 from typing import Any, TextIO
 
 from .. import __version__
-from ..model import ClaimResult, DocumentResult, Effect, Run
+from ..model import ClaimResult, DocumentResult, Effect, Location, Run
 from ..rounding import UnreadableNumber, parse_printed
 from . import CAUTION, Summary
 
@@ -51,6 +51,22 @@ def _effect(effect: Effect | None) -> dict[str, Any] | None:
     }
 
 
+def location_json(location: Location) -> dict[str, Any]:
+    return {
+        "page": location.page,
+        "line": location.line,
+        "start": location.start,
+        "end": location.end,
+        "file": location.file,
+        "section": location.section,
+        "paragraph": location.paragraph,
+        "cell": location.cell,
+        "boxes": [{"page": box.page, "x0": round(box.x0, 2), "top": round(box.top, 2),
+                   "x1": round(box.x1, 2), "bottom": round(box.bottom, 2)}
+                  for box in location.boxes],
+    }
+
+
 def claim_json(result: ClaimResult) -> dict[str, Any]:
     claim, recomputed = result.claim, result.recomputed
     p_interval = recomputed.p_interval
@@ -60,12 +76,7 @@ def claim_json(result: ClaimResult) -> dict[str, Any]:
         "id": result.id,
         "text": claim.text,
         "sentence": claim.sentence,
-        "location": {
-            "page": claim.location.page,
-            "line": claim.location.line,
-            "start": claim.location.start,
-            "end": claim.location.end,
-        },
+        "location": location_json(claim.location),
         "test": claim.test,
         "df": [_number(d) for d in df],
         "df_printed": list(claim.df),

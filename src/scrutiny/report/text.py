@@ -23,8 +23,16 @@ _SEVERITY_STYLE = {Severity.ERROR: "bold red", Severity.WARNING: "yellow", Sever
 
 
 def _where(result: ClaimResult) -> str:
+    """Short location: "p.3 l.14" (PDF), "intro.tex:14" (LaTeX), "¶12" (Word, markup), "l.14"."""
     location = result.claim.location
-    return f"p.{location.page} l.{location.line}" if location.page else f"l.{location.line}"
+    if location.page:
+        return f"p.{location.page} l.{location.line}"
+    if location.file:
+        return f"{location.file}:{location.line}"
+    if location.paragraph:
+        where = f"¶{location.paragraph}"
+        return f"{where} {location.cell}" if location.cell else where
+    return f"l.{location.line}"
 
 
 def _recomputed(result: ClaimResult) -> str:

@@ -1,0 +1,90 @@
+"""Read a file in a child process with a time and a memory ceiling.
+
+PDF, Word and XML parsers are large C and Python code bases that an unusual or hostile file can
+send into a loop, a crash or a memory explosion (a zip bomb disguised as .docx, a PDF with a
+million objects). Reading such a file in a forked child process keeps the batch alive: when the
+child runs out of time or memory, or dies, the file gets a one-line reason and the other files
+are still checked.
+"""
+
+from __future__ import annotations
+
+import multiprocessing
+import os
+import resource
+import signal
+
+from ..errors import InputError
+from ..model import Document
+
+#: default ceilings per file
+TIME_LIMIT_SECONDS = 120.0
+MEMORY_LIMIT_BYTES = 2 * 1024**3
+
+
+def _virtual_memory_bytes() -> int:
+    try:
+        with open("/proc/self/status", encoding="ascii") as status:
+            for line in status:
+                if line.startswith("VmSize:"):
+                    return int(line.split()[1]) * 1024
+    except OSError:
+        pass
+    return 0
+
+
+def _child(path: str, memory_limit: int, connection) -> None:  # pragma: no cover - in a child
+    from . import read_document
+
+    try:
+        # The ceiling counts from what the forked process already holds (the interpreter and
+        # its libraries), so that it limits what reading this one file may add.
+        ceiling = _virtual_memory_bytes() + memory_limit
+        resource.setrlimit(resource.RLIMIT_AS, (ceiling, ceiling))
+        connection.send(("document", read_document(path)))
+    except InputError as exc:
+        connection.send(("error", exc.reason))
+    except MemoryError:
+        connection.send(("error", f"needed more than {memory_limit / 2**20:,.0f} MB to read "
+                                  "(the memory ceiling per file)"))
+    except RecursionError:
+        connection.send(("error", "nested too deeply to read"))
+    except Exception as exc:  # a parser failing on a broken file
+        connection.send(("error", f"could not be read ({type(exc).__name__}: {exc})"))
+    finally:
+        connection.close()
+
+
+def read_guarded(path: str, time_limit: float = TIME_LIMIT_SECONDS,
+                 memory_limit: int = MEMORY_LIMIT_BYTES) -> Document:
+    """`read_document(path)` in a child process; `InputError` when it fails or overruns."""
+    if not hasattr(os, "fork"):  # no fork (Windows): read in this process, without ceilings
+        from . import read_document
+
+        return read_document(path)
+    context = multiprocessing.get_context("fork")
+    receiver, sender = context.Pipe(duplex=False)
+    child = context.Process(target=_child, args=(path, memory_limit, sender), daemon=True)
+    child.start()
+    sender.close()
+    try:
+        if not receiver.poll(time_limit):
+            raise InputError(path, f"took longer than {time_limit:g} s to read (the time "
+                                   "ceiling per file); skipped")
+        try:
+            kind, payload = receiver.recv()
+        except (EOFError, OSError):
+            child.join(5)
+            code = child.exitcode
+            how = (f"signal {signal.Signals(-code).name}" if code is not None and code < 0
+                   else f"exit code {code}")
+            raise InputError(path, f"the reader stopped without an answer ({how}); the file "
+                                   "may be damaged") from None
+    finally:
+        receiver.close()
+        if child.is_alive():
+            child.kill()
+        child.join(5)
+    if kind == "error":
+        raise InputError(path, payload)
+    return payload
