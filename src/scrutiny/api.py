@@ -10,6 +10,7 @@ This is the only module the CLI calls; everything the CLI does is reachable from
 
 from __future__ import annotations
 
+import functools
 import os
 import sys
 from pathlib import Path
@@ -25,7 +26,7 @@ from .ingest import (
     manuscript_suffixes,
     read_document,
 )
-from .ingest.guard import read_guarded
+from .ingest.guard import run_guarded
 from .model import ClaimResult, Document, DocumentResult, Run, Settings
 from .recompute import recompute
 
@@ -66,10 +67,16 @@ def check_file(path: str | os.PathLike[str], settings: Settings | None = None) -
     if size > MAX_INPUT_BYTES:
         raise InputError(name, f"too large ({size / 2**20:,.0f} MB; the limit is "
                                f"{MAX_INPUT_BYTES / 2**20:,.0f} MB)")
-    # Plain text is decoded here; every other format is parsed in a child process with a time
-    # and memory ceiling, so that a hostile or broken file cannot hang or sink the batch.
-    document = read_guarded(name) if needs_guard(name) else read_document(name)
-    return check_document(document, settings)
+    # Plain text is decoded here; every other format is parsed (and checked) in a child process
+    # with a time and memory ceiling, so that a hostile or broken file cannot hang or sink the
+    # batch.
+    if needs_guard(name):
+        return run_guarded(name, functools.partial(_check_unguarded, name, settings))
+    return _check_unguarded(name, settings)
+
+
+def _check_unguarded(path: str, settings: Settings | None) -> DocumentResult:
+    return check_document(read_document(path), settings)
 
 
 def check_stream(stream: BinaryIO, settings: Settings | None = None,

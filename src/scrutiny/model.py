@@ -11,7 +11,7 @@ from __future__ import annotations
 import enum
 from bisect import bisect_right
 from dataclasses import dataclass, field
-from typing import Mapping
+from typing import Mapping, Protocol
 
 
 class Severity(enum.IntEnum):
@@ -99,40 +99,16 @@ class Segment:
     cell: str | None = None
 
 
-class Geometry:
-    """Where each character of a PDF's text sits on its page, for the boxes of a claim.
+class Geometry(Protocol):
+    """Where the characters of a PDF's text sit on their pages (a PDF reader provides one).
 
-    `pages` holds, per page, the offset in the Document's text where that page's text starts and
-    an (n, 4) float array of boxes (x0, top, x1, bottom; NaN for characters the reader added,
-    such as line breaks) for the n characters that follow.
+    Implementations may keep the PDF open and look characters up only when asked, since only
+    the spans of claims ever need boxes.
     """
 
-    __slots__ = ("pages",)
-
-    def __init__(self, pages: list[tuple[int, "object"]]) -> None:
-        self.pages = pages  # [(text offset, numpy array (n, 4)), ...] in page order
-
     def boxes(self, start: int, end: int) -> tuple[Box, ...]:
-        """One box per printed line that the span [start, end) touches."""
-        import numpy
-
-        found: list[Box] = []
-        for number, (offset, array) in enumerate(self.pages, start=1):
-            low, high = max(start, offset), min(end, offset + len(array))
-            if low >= high:
-                continue
-            chars = array[low - offset:high - offset]
-            chars = chars[~numpy.isnan(chars).any(axis=1)]
-            if not len(chars):
-                continue
-            # a new line starts where the next character sits clearly lower (or left, after a
-            # column break) than the previous one
-            breaks = numpy.nonzero((chars[1:, 1] > chars[:-1, 3] - 0.5 * (chars[:-1, 3] - chars[:-1, 1]))
-                                   | (chars[1:, 0] < chars[:-1, 0] - 50))[0] + 1
-            for line in numpy.split(chars, breaks):
-                found.append(Box(number, float(line[:, 0].min()), float(line[:, 1].min()),
-                                 float(line[:, 2].max()), float(line[:, 3].max())))
-        return tuple(found)
+        """One box per printed line that the span [start, end) of the Document's text covers."""
+        ...
 
 
 @dataclass(frozen=True, slots=True)

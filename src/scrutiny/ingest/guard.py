@@ -1,10 +1,12 @@
-"""Read a file in a child process with a time and a memory ceiling.
+"""Run the work on one file in a child process with a time and a memory ceiling.
 
 PDF, Word and XML parsers are large C and Python code bases that an unusual or hostile file can
 send into a loop, a crash or a memory explosion (a zip bomb disguised as .docx, a PDF with a
-million objects). Reading such a file in a forked child process keeps the batch alive: when the
-child runs out of time or memory, or dies, the file gets a one-line reason and the other files
-are still checked.
+million objects). Doing the work on such a file in a forked child process keeps the batch
+alive: when the child runs out of time or memory, or dies, the file gets a one-line reason and
+the other files are still checked. The child does the whole check of the file, not only the
+reading, so that readers may keep the file open (a PDF reader looks up character boxes only for
+the claims found) and only the small result crosses back.
 """
 
 from __future__ import annotations
@@ -14,8 +16,11 @@ import os
 import resource
 import signal
 
+from typing import Callable, TypeVar
+
 from ..errors import InputError
-from ..model import Document
+
+Result = TypeVar("Result")
 
 #: default ceilings per file
 TIME_LIMIT_SECONDS = 120.0
@@ -33,15 +38,14 @@ def _virtual_memory_bytes() -> int:
     return 0
 
 
-def _child(path: str, memory_limit: int, connection) -> None:  # pragma: no cover - in a child
-    from . import read_document
-
+def _child(work: Callable[[], object], memory_limit: int,
+           connection) -> None:  # pragma: no cover - runs in a child process
     try:
         # The ceiling counts from what the forked process already holds (the interpreter and
-        # its libraries), so that it limits what reading this one file may add.
+        # its libraries), so that it limits what the work on this one file may add.
         ceiling = _virtual_memory_bytes() + memory_limit
         resource.setrlimit(resource.RLIMIT_AS, (ceiling, ceiling))
-        connection.send(("document", read_document(path)))
+        connection.send(("result", work()))
     except InputError as exc:
         connection.send(("error", exc.reason))
     except MemoryError:
@@ -55,16 +59,16 @@ def _child(path: str, memory_limit: int, connection) -> None:  # pragma: no cove
         connection.close()
 
 
-def read_guarded(path: str, time_limit: float = TIME_LIMIT_SECONDS,
-                 memory_limit: int = MEMORY_LIMIT_BYTES) -> Document:
-    """`read_document(path)` in a child process; `InputError` when it fails or overruns."""
-    if not hasattr(os, "fork"):  # no fork (Windows): read in this process, without ceilings
-        from . import read_document
-
-        return read_document(path)
+def run_guarded(path: str, work: Callable[[], Result],
+                time_limit: float = TIME_LIMIT_SECONDS,
+                memory_limit: int = MEMORY_LIMIT_BYTES) -> Result:
+    """`work()` (the work on the file `path`) in a child process; `InputError` naming `path`
+    when it fails, overruns its time or memory, or the child dies."""
+    if not hasattr(os, "fork"):  # no fork (Windows): work in this process, without ceilings
+        return work()
     context = multiprocessing.get_context("fork")
     receiver, sender = context.Pipe(duplex=False)
-    child = context.Process(target=_child, args=(path, memory_limit, sender), daemon=True)
+    child = context.Process(target=_child, args=(work, memory_limit, sender), daemon=True)
     child.start()
     sender.close()
     try:
