@@ -71,7 +71,10 @@ def check_file(path: str | os.PathLike[str], settings: Settings | None = None) -
     # with a time and memory ceiling, so that a hostile or broken file cannot hang or sink the
     # batch.
     if needs_guard(name):
-        return run_guarded(name, functools.partial(_check_unguarded, name, settings))
+        settings = settings or Settings()
+        return run_guarded(name, functools.partial(_check_unguarded, name, settings),
+                           time_limit=settings.time_limit,
+                           memory_limit=settings.memory_limit_mb * 2**20)
     return _check_unguarded(name, settings)
 
 

@@ -42,6 +42,16 @@ def _probability(text: str) -> float:
     return value
 
 
+def _positive(text: str) -> float:
+    try:
+        value = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"not a number: {text!r}") from None
+    if not value > 0:
+        raise argparse.ArgumentTypeError(f"must be positive, got {text}")
+    return value
+
+
 def _sesoi(text: str) -> tuple[str, float]:
     key, _, value = text.partition("=")
     key = key.strip().lower()
@@ -82,6 +92,12 @@ def build_parser() -> tuple[argparse.ArgumentParser, dict[str, argparse.Argument
                        metavar="MEASURE=VALUE",
                        help="smallest effect size of interest, e.g. d=0.3, r=0.1, eta2=0.01, "
                             "w=0.1 (defaults: Cohen's small effects); may be repeated")
+    check.add_argument("--time-limit", type=_positive, default=120.0, metavar="SECONDS",
+                       help="give up on a PDF, Word or markup file after this long "
+                            "(default: 120)")
+    check.add_argument("--memory-limit", type=_positive, default=2048.0, metavar="MB",
+                       help="give up on a PDF, Word or markup file that needs more memory "
+                            "than this (default: 2048)")
     checks = commands.add_parser("checks", help="list every check and the statistics behind it",
                                  description="List every check scrutiny runs.")
     return parser, {"check": check, "checks": checks}
@@ -130,7 +146,8 @@ def main(argv: Sequence[str] | None = None, stdout: TextIO | None = None,
         if args.command == "checks":
             _list_checks(stdout)
             return EXIT_OK
-        settings = Settings(alpha=args.alpha,
+        settings = Settings(alpha=args.alpha, time_limit=args.time_limit,
+                            memory_limit_mb=int(args.memory_limit),
                             **{_SESOI_KEYS[key]: value for key, value in args.sesoi})
         run = check_paths(args.paths, settings=settings)
         for document in run.documents:

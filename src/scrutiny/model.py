@@ -335,10 +335,15 @@ class Settings:
     sesoi_r: float = 0.1
     sesoi_eta2: float = 0.01
     sesoi_w: float = 0.1
+    #: ceilings for reading and checking one PDF, Word or markup file (seconds, megabytes)
+    time_limit: float = 120.0
+    memory_limit_mb: int = 2048
 
     def __post_init__(self) -> None:
         if not 0.0 < self.alpha < 1.0:
             raise ValueError(f"alpha must lie strictly between 0 and 1, got {self.alpha}")
+        if self.time_limit <= 0 or self.memory_limit_mb <= 0:
+            raise ValueError("the time and memory ceilings must be positive")
         for name in ("sesoi_d", "sesoi_r", "sesoi_eta2", "sesoi_w"):
             if getattr(self, name) <= 0:
                 raise ValueError(f"{name} must be positive, got {getattr(self, name)}")
@@ -352,6 +357,8 @@ class Settings:
                 "eta2_partial": self.sesoi_eta2,
                 "w": self.sesoi_w,
             },
+            "time_limit": self.time_limit,
+            "memory_limit_mb": self.memory_limit_mb,
         }
 
 
