@@ -248,8 +248,9 @@ class Interval:
 class Effect:
     """An effect size implied by a Claim, with the assumption it rests on.
 
-    `measure` is "d", "d_z", "r", "eta2_partial" or "w"; `low`/`high` bound a confidence
-    interval when one was computed.
+    `measure` is "d", "d_z", "r", "eta2_partial" or "w"; `low`/`high` bound its `confidence`
+    interval and `low90`/`high90` its 90% interval (the one an equivalence test at .05 uses);
+    `detectable` is the effect the design detects with 80% power at the chosen alpha.
     """
 
     measure: str
@@ -259,6 +260,32 @@ class Effect:
     low: float | None = None
     high: float | None = None
     confidence: float | None = None
+    low90: float | None = None
+    high90: float | None = None
+    detectable: float | None = None
+
+
+@dataclass(frozen=True, slots=True)
+class Evidence:
+    """How strongly a result speaks for or against its point null hypothesis.
+
+    `bf01` is the Bayes factor for the null over the alternative by `method` ("jzs": the
+    default Bayes factor of Rouder et al. 2009 with a Cauchy prior of scale `prior_scale`;
+    "bic": the unit-information approximation), None where it cannot be computed (`reason`
+    says why). `min_bf01` is the Sellke-Bayarri-Berger bound from the recomputed p alone;
+    `posterior_null` and `min_posterior_null` are the posterior probabilities of the null they
+    imply with prior probability `prior_null`.
+    """
+
+    min_bf01: float | None
+    min_posterior_null: float | None
+    prior_null: float
+    bf01: float | None = None
+    method: str | None = None
+    prior_scale: float | None = None
+    posterior_null: float | None = None
+    assumption: str | None = None
+    reason: str | None = None
 
 
 @dataclass(frozen=True, slots=True)
@@ -281,6 +308,7 @@ class Recomputed:
     df: tuple[float, ...] = ()
     n: float | None = None
     effect: Effect | None = None
+    evidence: Evidence | None = None
     reason: str | None = None
 
 
@@ -335,6 +363,11 @@ class Settings:
     sesoi_r: float = 0.1
     sesoi_eta2: float = 0.01
     sesoi_w: float = 0.1
+    #: Bayesian evidence: Cauchy prior scale on the standardised effect, prior P(H0)
+    prior_scale: float = 0.7071067811865476
+    prior_null: float = 0.5
+    #: confidence level of the effect-size intervals
+    confidence: float = 0.95
     #: ceilings for reading and checking one PDF, Word or markup file (seconds, megabytes)
     time_limit: float = 120.0
     memory_limit_mb: int = 2048
@@ -342,6 +375,14 @@ class Settings:
     def __post_init__(self) -> None:
         if not 0.0 < self.alpha < 1.0:
             raise ValueError(f"alpha must lie strictly between 0 and 1, got {self.alpha}")
+        if self.prior_scale <= 0:
+            raise ValueError(f"the prior scale must be positive, got {self.prior_scale}")
+        if not 0.0 < self.prior_null < 1.0:
+            raise ValueError(f"the prior probability of the null must lie strictly between 0 "
+                             f"and 1, got {self.prior_null}")
+        if not 0.0 < self.confidence < 1.0:
+            raise ValueError(f"the confidence level must lie strictly between 0 and 1, got "
+                             f"{self.confidence}")
         if self.time_limit <= 0 or self.memory_limit_mb <= 0:
             raise ValueError("the time and memory ceilings must be positive")
         for name in ("sesoi_d", "sesoi_r", "sesoi_eta2", "sesoi_w"):
@@ -357,6 +398,9 @@ class Settings:
                 "eta2_partial": self.sesoi_eta2,
                 "w": self.sesoi_w,
             },
+            "prior_scale": self.prior_scale,
+            "prior_null": self.prior_null,
+            "confidence": self.confidence,
             "time_limit": self.time_limit,
             "memory_limit_mb": self.memory_limit_mb,
         }

@@ -11,7 +11,7 @@ import math
 from typing import Any, TextIO
 
 from .. import __version__
-from ..model import ClaimResult, DocumentResult, Effect, Location, Run
+from ..model import ClaimResult, DocumentResult, Effect, Evidence, Location, Run
 from ..rounding import UnreadableNumber, parse_printed
 from . import CAUTION, Summary
 
@@ -46,8 +46,27 @@ def _effect(effect: Effect | None) -> dict[str, Any] | None:
         "low": _number(effect.low),
         "high": _number(effect.high),
         "confidence": effect.confidence,
+        "low90": _number(effect.low90),
+        "high90": _number(effect.high90),
+        "detectable": _number(effect.detectable),
         "n": _number(effect.n),
         "assumption": effect.assumption,
+    }
+
+
+def _evidence(evidence: Evidence | None) -> dict[str, Any] | None:
+    if evidence is None:
+        return None
+    return {
+        "bf01": _number(evidence.bf01),
+        "method": evidence.method,
+        "prior_scale": evidence.prior_scale,
+        "prior_null": evidence.prior_null,
+        "posterior_null": _number(evidence.posterior_null),
+        "min_bf01": _number(evidence.min_bf01),
+        "min_posterior_null": _number(evidence.min_posterior_null),
+        "assumption": evidence.assumption,
+        "reason": evidence.reason,
     }
 
 
@@ -98,7 +117,7 @@ def claim_json(result: ClaimResult) -> dict[str, Any]:
         "status": result.status.value,
         "reason": result.reason,
         "effect": _effect(recomputed.effect),
-        "evidence": None,
+        "evidence": _evidence(recomputed.evidence),
         "flags": [
             {
                 "check": flag.check,

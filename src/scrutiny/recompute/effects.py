@@ -1,0 +1,196 @@
+"""Effect sizes implied by a reported result, with confidence intervals and sensitivity.
+
+Every number rests on a design assumption that is stated beside it (`Effect.assumption`):
+
+| test | effect | interval |
+|---|---|---|
+| t, one sample or paired (n = df + 1) | d_z = t / sqrt(n) | noncentral t inverted |
+| t, two independent groups (n1 + n2 = df + 2) | d = t sqrt(1/n1 + 1/n2) | noncentral t inverted |
+| r (n = df + 2) | r | Fisher z: tanh(atanh r +- z_c / sqrt(n - 3)) |
+| F(df1, df2) | partial eta squared = F df1 / (F df1 + df2) | noncentral F inverted, lambda / (lambda + N), N = df1 + df2 + 1 |
+| chi-square(df) with N | Cohen's w = sqrt(chi2 / N) | noncentral chi-square inverted, sqrt(lambda / N) |
+| z with N | r = z / sqrt(N) | (z +- z_c) / sqrt(N) |
+
+The noncentral inversions find the noncentrality parameter at which the observed statistic
+sits at the upper and lower tail quantiles (Steiger & Fouladi 1997; Steiger 2004,
+Psychological Methods 9, 164-182); `scipy.special` solves them directly (nctdtrinc,
+ncfdtrinc, chndtrinc). Formulas for the point estimates follow Lakens (2013, Frontiers in
+Psychology 4, 863), Cohen (1988) and Rosenthal (1994).
+
+The *sensitivity* of a result is the effect the design could have detected with 80% power at
+the chosen alpha (two-sided for t, z and r): what a non-significant result can rule out.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from scipy import special
+
+from ..model import Effect
+from ..numbers import format_count
+
+POWER = 0.8
+
+
+@dataclass(frozen=True)
+class Design:
+    """The sample behind a t test: two groups (n1, n2) or one sample / paired (n)."""
+
+    kind: str  # "within" or "between"
+    n1: float
+    n2: float = 0.0
+    stated: bool = False  # the text says which design (else it is assumed)
+    sizes_printed: bool = False  # the group sizes are printed (else split equally)
+
+    @property
+    def n(self) -> float:
+        return self.n1 + self.n2
+
+    @property
+    def scale(self) -> float:
+        """d = t * scale: 1/sqrt(n) for one sample, sqrt(1/n1 + 1/n2) for two groups."""
+        if self.kind == "within":
+            return 1.0 / math.sqrt(self.n1)
+        return math.sqrt(1.0 / self.n1 + 1.0 / self.n2)
+
+    def describe(self) -> str:
+        if self.kind == "within":
+            text = f"one sample or paired differences, n = df + 1 = {format_count(self.n1)}"
+        else:
+            split = "" if self.sizes_printed else " of equal size"
+            text = (f"two independent groups{split}, n = {format_count(self.n1)} + "
+                    f"{format_count(self.n2)}")
+        return text if self.stated else f"{text} (assumed: no design stated)"
+
+
+def t_design(df: float, stated: str | None, group_sizes: tuple[float, float] | None = None) -> Design:
+    """The design of a t test with `df`, from the words around it and printed group sizes."""
+    if stated == "within":
+        return Design("within", df + 1.0, stated=True)
+    if group_sizes and abs(sum(group_sizes) - (df + 2.0)) < 0.5:
+        return Design("between", group_sizes[0], group_sizes[1], stated=stated == "between",
+                      sizes_printed=True)
+    return Design("between", (df + 2.0) / 2.0, (df + 2.0) / 2.0, stated=stated == "between")
+
+
+def _critical_z(confidence: float) -> float:
+    return float(special.ndtri(0.5 + confidence / 2.0))
+
+
+def _noncentral_t_limits(t: float, df: float, confidence: float) -> tuple[float, float]:
+    tail = (1.0 - confidence) / 2.0
+    return (float(special.nctdtrinc(df, 1.0 - tail, t)), float(special.nctdtrinc(df, tail, t)))
+
+
+def _noncentral_f_limits(f: float, df1: float, df2: float, confidence: float) -> tuple[float, float]:
+    tail = (1.0 - confidence) / 2.0
+    low = float(special.ncfdtrinc(df1, df2, 1.0 - tail, f)) if special.fdtr(df1, df2, f) > 1.0 - tail else 0.0
+    high = float(special.ncfdtrinc(df1, df2, tail, f)) if special.fdtr(df1, df2, f) > tail else 0.0
+    return max(low, 0.0), max(high, 0.0)
+
+
+def _noncentral_chi2_limits(x: float, df: float, confidence: float) -> tuple[float, float]:
+    tail = (1.0 - confidence) / 2.0
+    low = float(special.chndtrinc(x, df, 1.0 - tail)) if special.chdtr(df, x) > 1.0 - tail else 0.0
+    high = float(special.chndtrinc(x, df, tail)) if special.chdtr(df, x) > tail else 0.0
+    return max(low, 0.0), max(high, 0.0)
+
+
+def _interval(test: str, statistic: float, df: tuple[float, ...], n: float | None,
+              design: Design | None, confidence: float) -> tuple[float, float]:
+    if test == "t":
+        low, high = _noncentral_t_limits(statistic, df[0], confidence)
+        return low * design.scale, high * design.scale
+    if test == "r":
+        size = df[0] + 2.0
+        if size <= 3:
+            return -1.0, 1.0
+        spread = _critical_z(confidence) / math.sqrt(size - 3.0)
+        centre = math.atanh(max(min(statistic, 1.0 - 1e-15), -1.0 + 1e-15))
+        return math.tanh(centre - spread), math.tanh(centre + spread)
+    if test == "F":
+        total = df[0] + df[1] + 1.0
+        low, high = _noncentral_f_limits(statistic, df[0], df[1], confidence)
+        return low / (low + total), high / (high + total)
+    if test == "chi2":
+        low, high = _noncentral_chi2_limits(statistic, df[0], confidence)
+        return math.sqrt(low / n), math.sqrt(high / n)
+    if test == "z":
+        spread = _critical_z(confidence)
+        return (statistic - spread) / math.sqrt(n), (statistic + spread) / math.sqrt(n)
+    raise ValueError(test)
+
+
+def detectable_effect(test: str, df: tuple[float, ...], n: float | None, design: Design | None,
+                      alpha: float, power: float = POWER) -> float | None:
+    """The effect the design detects with `power` at `alpha` (two-sided for t, z and r).
+
+    t: the noncentrality at which P(T > t_crit) = power (the far tail, beyond -t_crit, adds
+    less than alpha / 2 and is left out, as in the usual power tables); F and chi-square: the
+    noncentrality at which P(F > F_crit) = power, converted like the effect itself.
+    """
+    if test == "t":
+        critical = float(special.stdtrit(df[0], 1.0 - alpha / 2.0))
+        return float(special.nctdtrinc(df[0], 1.0 - power, critical)) * design.scale
+    if test == "F":
+        critical = float(special.fdtri(df[0], df[1], 1.0 - alpha))
+        noncentrality = float(special.ncfdtrinc(df[0], df[1], 1.0 - power, critical))
+        return noncentrality / (noncentrality + df[0] + df[1] + 1.0)
+    if test == "chi2" and n:
+        critical = float(special.chdtri(df[0], alpha))
+        return math.sqrt(float(special.chndtrinc(critical, df[0], 1.0 - power)) / n)
+    z_sum = float(special.ndtri(1.0 - alpha / 2.0) + special.ndtri(power))
+    if test == "r" and df[0] + 2.0 > 3:
+        return math.tanh(z_sum / math.sqrt(df[0] + 2.0 - 3.0))
+    if test == "z" and n:
+        return z_sum / math.sqrt(n)
+    return None
+
+
+def implied_effect(test: str, statistic: float, df: tuple[float, ...], n: float | None,
+                   design_stated: str | None, *, confidence: float = 0.95, alpha: float = 0.05,
+                   group_sizes: tuple[float, float] | None = None) -> Effect | None:
+    """The effect size a result implies, its `confidence` interval and 90% interval (for
+    equivalence tests), the effect detectable with 80% power, and the assumption behind them.
+
+    None when the result does not determine an effect (chi-square or z without N).
+    """
+    design = None
+    if test == "t":
+        design = t_design(df[0], design_stated, group_sizes)
+        measure = "d_z" if design.kind == "within" else "d"
+        value, size, assumption = statistic * design.scale, design.n, design.describe()
+    elif test == "r":
+        size = df[0] + 2.0
+        measure, value = "r", statistic
+        assumption = f"Pearson r, n = df + 2 = {format_count(size)}"
+    elif test == "F":
+        df1, df2 = df
+        measure = "eta2_partial"
+        value = statistic * df1 / (statistic * df1 + df2) if statistic * df1 + df2 > 0 else 0.0
+        size = df1 + df2 + 1.0
+        assumption = f"partial eta squared from F({format_count(df1)}, {format_count(df2)})"
+    elif test == "chi2" and n:
+        measure, value, size = "w", math.sqrt(max(statistic, 0.0) / n), n
+        assumption = f"Cohen's w = sqrt(chi2 / N), N = {format_count(n)}"
+    elif test == "z" and n:
+        measure, value, size = "r", statistic / math.sqrt(n), n
+        assumption = f"r = z / sqrt(N), N = {format_count(n)}"
+    else:
+        return None
+    low, high = _interval(test, statistic, df, n, design, confidence)
+    low90, high90 = _interval(test, statistic, df, n, design, 0.90)
+    return Effect(
+        measure=measure,
+        value=value,
+        assumption=assumption,
+        n=size,
+        low=low,
+        high=high,
+        confidence=confidence,
+        low90=low90,
+        high90=high90,
+        detectable=detectable_effect(test, df, n, design, alpha),
+    )
