@@ -92,6 +92,13 @@ def build_parser() -> tuple[argparse.ArgumentParser, dict[str, argparse.Argument
                        metavar="MEASURE=VALUE",
                        help="smallest effect size of interest, e.g. d=0.3, r=0.1, eta2=0.01, "
                             "w=0.1 (defaults: Cohen's small effects); may be repeated")
+    check.add_argument("--prior-scale", type=_positive, default=0.7071067811865476,
+                       metavar="R",
+                       help="scale of the Cauchy prior on the standardised effect for the JZS "
+                            "Bayes factor (default: sqrt(2)/2 = 0.707)")
+    check.add_argument("--prior-null", type=_probability, default=0.5, metavar="PI0",
+                       help="prior probability of the null hypothesis for the posterior "
+                            "probabilities (default: 0.5)")
     check.add_argument("--time-limit", type=_positive, default=120.0, metavar="SECONDS",
                        help="give up on a PDF, Word or markup file after this long "
                             "(default: 120)")
@@ -146,7 +153,8 @@ def main(argv: Sequence[str] | None = None, stdout: TextIO | None = None,
         if args.command == "checks":
             _list_checks(stdout)
             return EXIT_OK
-        settings = Settings(alpha=args.alpha, time_limit=args.time_limit,
+        settings = Settings(alpha=args.alpha, prior_scale=args.prior_scale,
+                            prior_null=args.prior_null, time_limit=args.time_limit,
                             memory_limit_mb=int(args.memory_limit),
                             **{_SESOI_KEYS[key]: value for key, value in args.sesoi})
         run = check_paths(args.paths, settings=settings)

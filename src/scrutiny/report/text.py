@@ -10,6 +10,7 @@ from rich.table import Table
 from rich.text import Text
 
 from ..check.consistency import describe_p
+from ..check.effects import LABELS
 from ..model import ClaimResult, DocumentResult, Run, Severity, Status
 from ..numbers import format_p, format_p_interval
 from . import CAUTION, Summary
@@ -44,6 +45,32 @@ def _recomputed(result: ClaimResult) -> str:
     return "-"
 
 
+def _format_bayes_factor(value: float) -> str:
+    if value >= 1000 or value < 0.001:
+        return f"{value:.1e}"
+    return f"{value:.3g}"
+
+
+def _evidence(result: ClaimResult, alpha: float) -> str:
+    """Compact effect and evidence: "d = 0.89 [0.13, 1.64], BF01 = 0.34"."""
+    effect, evidence = result.recomputed.effect, result.recomputed.evidence
+    parts = []
+    if effect is not None:
+        text = f"{LABELS[effect.measure]} = {effect.value:.2f}"
+        if effect.low is not None and effect.high is not None:
+            text += f" [{effect.low:.2f}, {effect.high:.2f}]"
+        parts.append(text)
+        p = result.recomputed.p
+        if p is not None and effect.detectable is not None and p >= alpha:
+            parts.append(f"80% power at {effect.detectable:.2f}")
+    if evidence is not None:
+        if evidence.bf01 is not None:
+            parts.append(f"BF01 = {_format_bayes_factor(evidence.bf01)}")
+        elif evidence.min_bf01 is not None:
+            parts.append(f"BF01 ≥ {_format_bayes_factor(evidence.min_bf01)}")
+    return ", ".join(parts) or "-"
+
+
 def _status(result: ClaimResult) -> Text:
     label = result.status.value
     if result.status is Status.UNCHECKED and result.reason:
@@ -60,7 +87,7 @@ def _flags(result: ClaimResult) -> Text:
     return text
 
 
-def _document(console: Console, document: DocumentResult) -> None:
+def _document(console: Console, document: DocumentResult, alpha: float) -> None:
     about = [document.format or "unknown format"]
     if document.encoding and document.encoding != "utf-8":
         about.append(document.encoding)
@@ -78,12 +105,13 @@ def _document(console: Console, document: DocumentResult) -> None:
     table.add_column("result as printed", overflow="fold", ratio=3)
     table.add_column("reported", no_wrap=True)
     table.add_column("recomputed", no_wrap=True)
+    table.add_column("effect [95% CI], evidence", ratio=2)
     table.add_column("status", ratio=1)
-    table.add_column("flags", ratio=1)
+    table.add_column("flags", ratio=1, overflow="fold")
     for result in document.claims:
         table.add_row(result.id, _where(result), " ".join(result.claim.text.split()),
-                      describe_p(result.claim), _recomputed(result), _status(result),
-                      _flags(result))
+                      describe_p(result.claim), _recomputed(result),
+                      _evidence(result, alpha), _status(result), _flags(result))
     console.print(table)
     messages = Table(show_header=False, show_edge=False, box=None, pad_edge=False,
                      padding=(0, 1, 0, 0))
@@ -104,13 +132,13 @@ def _document(console: Console, document: DocumentResult) -> None:
 
 def render_text(run: Run, stream: TextIO, *, width: int | None = None) -> None:
     isatty = getattr(stream, "isatty", lambda: False)()
-    console = Console(file=stream, width=width or (None if isatty else 120),
+    console = Console(file=stream, width=width or (None if isatty else 160),
                       force_terminal=None if isatty else False, highlight=False,
                       soft_wrap=False, emoji=False)
     for index, document in enumerate(run.documents):
         if index:
             console.print()
-        _document(console, document)
+        _document(console, document, run.settings.alpha)
     if run.documents:
         console.print()
     console.print(Text(Summary.of(run).line(), style="bold"))
