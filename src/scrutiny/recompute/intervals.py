@@ -1,0 +1,116 @@
+"""Estimates reported with a confidence interval, and coefficients with a standard error.
+
+The p-value implied by an estimate and its interval (Altman & Bland 2011, BMJ 343:d2304): the
+interval's half-width is z_c standard errors, so SE = (upper - lower) / (2 z_c) and the test
+statistic is estimate / SE; for ratios (odds, risk and hazard ratios) all of this happens on the
+log scale. Altman and Bland give a closed-form approximation of the normal tail; scrutiny uses
+the exact normal (and t, see below) tails instead.
+
+Rounding: the estimate and both limits are printed rounded, so every quantity is an interval
+over the box of values they stand for; the statistic is monotone in each of them (it grows with
+|estimate| and shrinks with the width), so the corners of the box bound it.
+
+An interval may come from a t distribution with unknown df (small samples): the p-value range
+is then widened to what any df from `MIN_DF` up would give, because the printed numbers cannot
+tell which applies. Altman and Bland note their method is approximate below about n = 60.
+"""
+
+from __future__ import annotations
+
+import itertools
+import math
+from dataclasses import dataclass
+
+from scipy import special
+
+from ..model import Interval
+from ..rounding import PrintedNumber
+
+#: degrees of freedom considered for an interval of unknown origin: normal (inf) down to this
+MIN_DF = 10.0
+_DF_GRID = (math.inf, 120.0, 60.0, 30.0, 20.0, MIN_DF)
+
+
+@dataclass(frozen=True)
+class IntervalFacts:
+    """What an estimate and its interval imply."""
+
+    p: Interval                     # p-values the printed numbers allow
+    statistic: Interval             # |estimate| / SE over the rounding box (normal scale)
+    excludes_null: bool | None      # True / False; None when the rounding leaves it open
+    centre_offset: float            # how far the estimate sits from the interval's middle,
+                                    # in units of the width's rounding slack (<= 1 is fine)
+    ratio: bool
+
+
+def _limits(number: PrintedNumber) -> tuple[float, float]:
+    return number.value - number.half_unit, number.value + number.half_unit
+
+
+def _two_sided_p(statistic: float, df: float) -> float:
+    if math.isinf(df):
+        return float(special.erfc(statistic / math.sqrt(2.0)))
+    return float(2.0 * special.stdtr(df, -statistic))
+
+
+def _critical(confidence: float, df: float) -> float:
+    tail = 0.5 + confidence / 2.0
+    return float(special.ndtri(tail)) if math.isinf(df) else float(special.stdtrit(df, tail))
+
+
+def interval_facts(estimate: PrintedNumber, lower: PrintedNumber, upper: PrintedNumber,
+                   confidence: float = 0.95, ratio: bool = False,
+                   null: float | None = None) -> IntervalFacts:
+    """p-values and sanity facts of `estimate [lower, upper]` at `confidence`.
+
+    `ratio` puts everything on the log scale (the null is then 1, else 0 unless given).
+    """
+    null = (1.0 if ratio else 0.0) if null is None else null
+    transform = math.log if ratio else (lambda x: x)
+    boxes = []
+    for e, lo, hi in itertools.product(_limits(estimate), _limits(lower), _limits(upper)):
+        if ratio and min(e, lo, hi) <= 0:
+            continue
+        if hi <= lo:
+            continue
+        boxes.append((transform(e) - transform(null), transform(lo), transform(hi)))
+    if not boxes:
+        raise ValueError("the interval has no width, or a ratio is not positive")
+    p_values, statistics = [], []
+    for df in _DF_GRID:
+        critical = _critical(confidence, df)
+        for e, lo, hi in boxes:
+            statistic = abs(e) / ((hi - lo) / (2.0 * critical))
+            statistics.append(statistic) if math.isinf(df) else None
+            p_values.append(_two_sided_p(statistic, df))
+    # does the interval exclude the null value? decided only where rounding cannot change it
+    if lower.value - lower.half_unit > null or upper.value + upper.half_unit < null:
+        excludes: bool | None = True
+    elif lower.value + lower.half_unit <= null <= upper.value - upper.half_unit:
+        excludes = False
+    else:
+        excludes = None
+    # where the estimate sits: the middle of the interval on the working scale
+    middle = (transform(lower.value) + transform(upper.value)) / 2.0
+    slack = (abs(transform(lower.value + lower.half_unit) - transform(lower.value))
+             + abs(transform(upper.value + upper.half_unit) - transform(upper.value))) / 2.0 \
+        + abs(transform(estimate.value + estimate.half_unit) - transform(estimate.value))
+    offset = abs(transform(estimate.value) - middle) / slack if slack > 0 else math.inf
+    return IntervalFacts(
+        p=Interval(min(p_values), max(p_values)),
+        statistic=Interval(min(statistics), max(statistics)),
+        excludes_null=excludes,
+        centre_offset=offset,
+        ratio=ratio,
+    )
+
+
+def ratio_interval(estimate: PrintedNumber, standard_error: PrintedNumber) -> Interval:
+    """|estimate| / SE over the rounding of both: the test statistic of a coefficient
+    ("b = 0.34, SE = 0.12" gives z or t in about [2.65, 3.13])."""
+    e_low, e_high = _limits(estimate)
+    s_low, s_high = _limits(standard_error)
+    s_low = max(s_low, 1e-300)
+    magnitudes = [abs(e_low), abs(e_high)]
+    smallest = 0.0 if e_low <= 0.0 <= e_high else min(magnitudes)
+    return Interval(smallest / s_high, max(magnitudes) / s_low)
