@@ -51,8 +51,9 @@ MAX_FILES = 200
 MAX_INPUT_BYTES = 64 * 1024 * 1024
 #: budget of macro expansions per manuscript (a command that calls itself stops here)
 MAX_EXPANSIONS = 100_000
-#: budget of tokens that macro expansion may produce per manuscript
-MAX_EXPANDED_TOKENS = 2_000_000
+#: budget of source characters that macro expansion may produce per manuscript (commands
+#: that call each other several times over would otherwise grow without bound)
+MAX_EXPANDED_CHARACTERS = 20_000_000
 #: an argument longer than this many tokens is taken as one whose closing brace is missing
 MAX_ARGUMENT_TOKENS = 5_000
 #: the same for an optional argument in square brackets (labels, placements, short titles)
@@ -355,7 +356,7 @@ class _Converter:
         self.files_read = 0
         self.bytes_read = 0
         self.expansions = 0
-        self.expanded_tokens = 0
+        self.expanded_characters = 0
         self.nesting = 0
         self.scanned = 0
         self.notes_left_out = 0
@@ -749,10 +750,12 @@ class _Converter:
 
     def _expand(self, name: str, macro: _Macro, line: int, file: str) -> None:
         self.expansions += 1
-        if self.expansions > MAX_EXPANSIONS or self.expanded_tokens > MAX_EXPANDED_TOKENS:
+        if (self.expansions > MAX_EXPANSIONS
+                or self.expanded_characters > MAX_EXPANDED_CHARACTERS):
             self._note_once("expansion", f"{file}:{line}: macro expansion stopped at "
-                                         f"\\{name}: too many expansions (a command that "
-                                         f"calls itself?); later commands are dropped")
+                                         f"\\{name}: the manuscript's own commands expand "
+                                         f"too often or too far (one that calls itself?); "
+                                         f"later ones print nothing")
             return
         arguments: list[list[Token]] = []
         for index in range(macro.count):
@@ -785,7 +788,7 @@ class _Converter:
                     continue
             body.append((kind, value, line, file))
             index += 1
-        self.expanded_tokens += len(body)
+        self.expanded_characters += sum(len(token[1]) + 1 for token in body)
         self._push(body)
 
     def _accent(self, name: str, line: int, file: str) -> None:
