@@ -22,6 +22,7 @@ from .extract import find_claims
 from .ingest import (
     document_from_bytes,
     document_from_text,
+    head_needs_guard,
     needs_guard,
     manuscript_suffixes,
     read_document,
@@ -49,7 +50,7 @@ def check_document(document: Document, settings: Settings | None = None) -> Docu
         results.append(ClaimResult(id=f"c{number}", claim=claim, recomputed=recomputed,
                                    flags=flags, status=status, reason=reason))
     return DocumentResult(path=document.path, format=document.format, claims=tuple(results),
-                          encoding=document.encoding, pages=document.pages)
+                          encoding=document.encoding, pages=document.pages, notes=document.notes)
 
 
 def check_text(text: str, settings: Settings | None = None, path: str = "<text>") -> DocumentResult:
@@ -88,6 +89,15 @@ def check_stream(stream: BinaryIO, settings: Settings | None = None,
     data = stream.read(MAX_INPUT_BYTES + 1)
     if len(data) > MAX_INPUT_BYTES:
         raise InputError(path, "too large for standard input")
+    work = functools.partial(_check_bytes, data, path, settings)
+    if head_needs_guard(data):
+        settings = settings or Settings()
+        return run_guarded(path, work, time_limit=settings.time_limit,
+                           memory_limit=settings.memory_limit_mb * 2**20)
+    return work()
+
+
+def _check_bytes(data: bytes, path: str, settings: Settings | None) -> DocumentResult:
     return check_document(document_from_bytes(data, path), settings)
 
 

@@ -63,9 +63,9 @@ class Location:
 
     `start`/`end` are character offsets into the Document's `text` (the text as decoded from
     the file, or as a reader extracted it from a PDF, Word, LaTeX or markup file, before any
-    normalisation); `line` is 1-based (per page for PDFs, per source file for text and LaTeX,
-    in the extracted text for Word and markup); `page` is 1-based or None for formats without
-    pages. The other fields say more where the format has it: the LaTeX `file` (after
+    normalisation); `line` is 1-based: per page for PDFs, per source file for text, LaTeX,
+    HTML and JATS, within the paragraph or table cell for Word; `page` is 1-based or None for
+    formats without pages. The other fields say more where the format has it: the LaTeX `file` (after
     `\\input`), the `section` title (HTML, JATS), the `paragraph` number (Word, HTML, JATS), the
     table `cell` ("table 2, row 3, column 1") and the `boxes` the claim covers on a PDF page.
     """
@@ -344,6 +344,8 @@ class DocumentResult:
     errors: tuple[str, ...] = ()
     encoding: str | None = None
     pages: int | None = None
+    #: what the reader noticed, repaired or could not read ("running heads removed", ...)
+    notes: tuple[str, ...] = ()
 
     @property
     def readable(self) -> bool:

@@ -134,20 +134,24 @@ def read_document(path: str | os.PathLike[str]) -> Document:
     return document_from_bytes(data, name)
 
 
-def needs_guard(path: str) -> bool:
-    """True unless the file starts like plain text or LaTeX, which are read without big parsers.
+def head_needs_guard(head: bytes) -> bool:
+    """True unless the bytes start like plain text or LaTeX, read without big parsers.
 
     PDFs, ZIP containers (Word) and markup (HTML, XML) are parsed by large libraries and are read
     under a time and memory ceiling (see `guard`); the decision looks at content, not the name.
     """
-    try:
-        with open(path, "rb") as handle:
-            head = handle.read(1024)
-    except OSError:
-        return False  # read_document reports the real problem
-    head = head.lstrip(b"\xef\xbb\xbf \t\r\n")
+    head = head[:1024].lstrip(b"\xef\xbb\xbf \t\r\n")
     return head.startswith((b"%PDF", b"PK", b"<", b"\xff\xfe<", b"\xfe\xff\x00<")) or \
         b"%PDF-" in head
+
+
+def needs_guard(path: str) -> bool:
+    """`head_needs_guard` for the start of the file at `path`."""
+    try:
+        with open(path, "rb") as handle:
+            return head_needs_guard(handle.read(1024))
+    except OSError:
+        return False  # read_document reports the real problem
 
 
 __all__ = [

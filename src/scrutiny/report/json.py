@@ -138,6 +138,7 @@ def document_json(document: DocumentResult) -> dict[str, Any]:
         "encoding": document.encoding,
         "pages": document.pages,
         "errors": list(document.errors),
+        "notes": list(document.notes),
         "claims": [claim_json(c) for c in document.claims],
     }
 

@@ -96,6 +96,8 @@ def _document(console: Console, document: DocumentResult, alpha: float) -> None:
         for error in document.errors:
             console.print(Text(f"  could not be read: {error}", style="bold red"))
         return
+    for note in document.notes:
+        console.print(Text(f"  note: {note}", style="dim"))
     if not document.claims:
         console.print(Text("  no test results found", style="dim"))
         return
