@@ -1033,9 +1033,17 @@ class _Converter:
         self.sources.clear()
 
     def _end_input(self, name: str, line: int, file: str) -> None:
-        lexer = self._top_lexer()
-        if lexer is not None and lexer.real is not None and lexer is not self.sources[0]:
-            lexer.pos = len(lexer.text)
+        """\\endinput: the file being read ends at the end of this line."""
+        for source in reversed(self.sources):
+            if source.__class__ is _Lexer:
+                # what follows on the line is still read, as TeX does; nothing after it
+                if source.pending is not None and "\n" in source.pending[1]:
+                    cut = source.pos  # the line end after \endinput is already read
+                else:
+                    cut = source.text.find("\n", source.pos)
+                if cut != -1:
+                    source.text = source.text[:cut]
+                return
 
     def _verbatim(self, environment: str, line: int, file: str, keep: bool) -> None:
         """Print (or, for comments and drawings, skip) an environment's text as typed."""
