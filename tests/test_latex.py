@@ -383,6 +383,17 @@ def test_inputs_are_read_with_their_own_file_and_line(tmp_path):
         ("chi2", "sections/discussion.tex", 1), ("t", "main.tex", 7)]
 
 
+def test_input_files_lists_what_a_main_file_reads(tmp_path):
+    write(tmp_path / "main.tex", "\\input{a}\n\\include{sub/b}\n\\input{absent}\n")
+    write(tmp_path / "a.tex", "A.\n")
+    write(tmp_path / "sub" / "b.tex", "B.\n")
+    write(tmp_path / "alone.tex", "Alone.\n")
+    assert latex.input_files(str(tmp_path / "main.tex")) == (
+        os.path.realpath(tmp_path / "a.tex"), os.path.realpath(tmp_path / "sub" / "b.tex"))
+    assert latex.input_files(str(tmp_path / "alone.tex")) == ()
+    assert latex.input_files(str(tmp_path / "absent.tex")) == ()
+
+
 def test_a_missing_input_gives_a_note_and_the_rest_is_read(tmp_path):
     write(tmp_path / "main.tex",
           "Before, $t(28) = 2.45$, $p = .021$.\n\\input{absent}\nAfter, $t(12) = 2.2$, $p = .048$.")

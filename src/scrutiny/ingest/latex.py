@@ -23,6 +23,9 @@ source file and line it came from:
   or unreadable one gives a note and the rest is still read, include cycles are cut and at
   most `MAX_FILES` files are read.
 
+Each stretch of the text is a `Segment` naming its file (relative to the main file's folder)
+and source line, and the title of the section it stands in.
+
 Broken source never stops the reading: an unclosed `$` or brace ends at the paragraph's end,
 an argument that never closes is read as text, and everything the reader had to give up on is
 said in `Document.notes`, one line each, naming the file and line.
@@ -137,6 +140,22 @@ def read(data: bytes, path: str) -> Document:
         raise InputError(path, reason)
     return build_document(path, FORMAT, text, segments=tuple(segments), encoding=encoding,
                           notes=tuple(notes))
+
+
+def input_files(path: str) -> tuple[str, ...]:
+    """The files the LaTeX manuscript at `path` reads through \\input and its kin (real paths).
+
+    Meant for searching a folder: a file that another manuscript there inputs is part of that
+    manuscript, and checking it on its own as well would report its results twice.
+    """
+    try:
+        with open(path, "rb") as handle:
+            source, _ = decode(handle.read())
+    except (OSError, NotText):
+        return ()
+    converter = _Converter(path)
+    converter.convert(source)
+    return tuple(converter.inputs)
 
 
 # -- tokens ----------------------------------------------------------------------------------
@@ -354,6 +373,8 @@ class _Converter:
         self.macros: dict[str, _Macro] = {}
         self.notes: list[str] = []
         self.files_read = 0
+        #: real paths of the files read besides the main file
+        self.inputs: list[str] = []
         self.bytes_read = 0
         self.expansions = 0
         self.expanded_characters = 0
@@ -1277,6 +1298,7 @@ class _Converter:
             self._note(line, file, f"{shown}: {exc}; the rest was read without it")
             return
         self.files_read += 1
+        self.inputs.append(real)
         self.bytes_read += size
         if command in _PAGE_INPUTS:
             self._push([("act", lambda: self.output.paragraph_break(line, file), line, file)])
@@ -1332,4 +1354,4 @@ _HANDLERS: dict[str, Handler] = {
     **{name: _Converter._define for name in tables.DEFINITIONS},
 }
 
-__all__ = ["FORMAT", "SUFFIXES", "sniff", "read"]
+__all__ = ["FORMAT", "SUFFIXES", "input_files", "read", "sniff"]
