@@ -11,6 +11,8 @@ import os
 import re
 
 import pytest
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
 
 import scrutiny
 from scrutiny.errors import InputError
@@ -625,6 +627,28 @@ def test_the_scan_budget_limits_later_arguments(monkeypatch):
     assert document.text.count("w") == 200
     assert document.notes == ("paper.tex:1: the argument of \\footnote has no closing brace; "
                               "read on as text",)
+
+
+_PIECES = ["\\", "{", "}", "$", "$$", "%", "\n", "\n\n", " ", "^", "_", "&", "~", "#", "[", "]",
+           "\\begin{", "\\end{", "equation", "verbatim", "document", "\\section", "\\footnote",
+           "\\cite", "\\def", "\\newcommand", "\\x", "#1", "\\verb|", "\\url{", "\\iffalse",
+           "\\fi", "t(28) = 2.45", "p = .021", "\\chi", "\\frac", "\\text", "\\left", ".", "\\\"",
+           "\\\\", "\\[", "\\]", "*", "\\item", "\\caption", "\\abstract", "\\endinput", "--"]
+
+
+@settings(max_examples=300, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(st.lists(st.sampled_from(_PIECES), max_size=60).map("".join))
+def test_any_source_reads_without_error_and_maps_inside_itself(source):
+    try:
+        document = latex.read(source.encode(), "paper.tex")
+    except InputError as error:
+        assert error.reason.startswith(("empty file", "no text to read"))
+        return
+    find_claims(document)
+    segments = document.offset_map._segments
+    assert [s.start for s in segments] == sorted(s.start for s in segments)
+    assert all(0 <= s.start <= len(document.text) for s in segments)
+    assert all(1 <= s.line <= source.count("\n") + 1 for s in segments)
 
 
 # -- sniffing --------------------------------------------------------------------------------
