@@ -1247,8 +1247,8 @@ class _Converter:
                                    f"file, so it has no folder to look in")
             return
         if os.path.isabs(target) or target.startswith("~") or re.match(r"^[A-Za-z]:", target):
-            self._note(line, file, f"{shown} refused: an absolute path leaves the manuscript's "
-                                   f"folder")
+            self._note(line, file, f"{shown} refused: an absolute path is not followed (only "
+                                   f"files in the manuscript's folder are read)")
             return
         candidates = [target] if target.lower().endswith(".tex") else [target + ".tex", target]
         found: tuple[str, str] | None = None
