@@ -133,11 +133,23 @@ def test_folders_are_searched_and_other_files_counted(manuscripts, tmp_path):
     report = json.loads(out)
     assert [os.path.basename(d["path"]) for d in report["documents"]] == ["results.md",
                                                                            "appendix.txt"]
-    assert [os.path.basename(p) for p in report["skipped"]] == [".git", ".hidden.txt",
-                                                                 "figure.png"]
+    assert [(os.path.basename(s["path"]), s["reason"]) for s in report["skipped"]] == [
+        (".git", "hidden"), (".hidden.txt", "hidden"), ("figure.png", "not a manuscript format")]
     assert code == 1
     text = run("check", str(tmp_path / "paper"))[1]
-    assert "3 other files skipped (hidden, or not a manuscript format)" in text
+    assert "3 other files skipped (2 hidden, 1 not a manuscript format)" in text
+
+
+def test_latex_parts_are_checked_with_their_main_file(manuscripts, tmp_path):
+    manuscripts("paper/main.tex", "\\documentclass{article}\n\\begin{document}\n"
+                                  "\\input{results}\n\\end{document}\n")
+    manuscripts("paper/results.tex", "The voles dug deeper, $t(28) = 2.20$, $p = .01$.\n")
+    report = json.loads(run("check", str(tmp_path / "paper"), "--format", "json")[1])
+    assert [os.path.basename(d["path"]) for d in report["documents"]] == ["main.tex"]
+    assert [c["statistic"] for c in report["documents"][0]["claims"]] == ["2.20"]
+    [skipped] = report["skipped"]
+    assert (os.path.basename(skipped["path"]), skipped["reason"].startswith("part of ")) == (
+        "results.tex", True)
 
 
 def test_a_file_named_twice_is_checked_once(manuscripts):

@@ -28,7 +28,7 @@ from .ingest import (
     read_document,
 )
 from .ingest.guard import run_guarded
-from .model import ClaimResult, Document, DocumentResult, Run, Settings
+from .model import ClaimResult, Document, DocumentResult, Run, Settings, Skipped
 from .recompute import recompute
 
 #: the name under which standard input is reported
@@ -101,41 +101,67 @@ def _check_bytes(data: bytes, path: str, settings: Settings | None) -> DocumentR
     return check_document(document_from_bytes(data, path), settings)
 
 
-def collect_inputs(paths: Iterable[str]) -> tuple[list[str], list[str]]:
+def collect_inputs(paths: Iterable[str]) -> tuple[list[str], list[Skipped]]:
     """Expand folders (recursively, in sorted order) into manuscript files.
 
     Returns `(inputs, skipped)`: files named explicitly are always inputs (their content
-    decides their format); inside folders, files whose extension is not a manuscript format,
-    and hidden files and folders (".git", ".DS_Store"; a folder is not entered), are listed in
-    `skipped` so that the summary can count them: nothing is passed over silently.
+    decides their format). Inside folders, files whose extension is not a manuscript format,
+    hidden files and folders (".git", ".DS_Store"; a folder is not entered) and LaTeX files that
+    another LaTeX manuscript of the folder reads with \\input (they are checked as part of it)
+    are listed in `skipped` with the reason, so that the summary can count them: nothing is
+    passed over silently.
     """
     inputs: list[str] = []
-    skipped: list[str] = []
-    suffixes = manuscript_suffixes()
+    skipped: list[Skipped] = []
+    found_in_folders: set[str] = set()
     seen: set[str] = set()
+    suffixes = manuscript_suffixes()
 
-    def add(name: str) -> None:
+    def add(name: str, in_folder: bool) -> None:
         key = name if name == STDIN else os.path.normpath(name)
         if key not in seen:
             seen.add(key)
             inputs.append(name)
+            if in_folder:
+                found_in_folders.add(name)
 
     for name in paths:
         if name != STDIN and os.path.isdir(name):
             for folder, subfolders, files in os.walk(name):
-                skipped.extend(os.path.join(folder, d) for d in sorted(subfolders)
-                               if d.startswith("."))
+                skipped.extend(Skipped(os.path.join(folder, d), "hidden")
+                               for d in sorted(subfolders) if d.startswith("."))
                 subfolders[:] = sorted(d for d in subfolders if not d.startswith("."))
                 for file_name in sorted(files):
                     full = os.path.join(folder, file_name)
-                    if (not file_name.startswith(".")
-                            and Path(file_name).suffix.lower() in suffixes):
-                        add(full)
+                    if file_name.startswith("."):
+                        skipped.append(Skipped(full, "hidden"))
+                    elif Path(file_name).suffix.lower() in suffixes:
+                        add(full, in_folder=True)
                     else:
-                        skipped.append(full)
+                        skipped.append(Skipped(full, "not a manuscript format"))
         else:
-            add(name)
-    return inputs, skipped
+            add(name, in_folder=False)
+    return _without_latex_parts(inputs, skipped, found_in_folders)
+
+
+def _without_latex_parts(inputs: list[str], skipped: list[Skipped],
+                         found_in_folders: set[str]) -> tuple[list[str], list[Skipped]]:
+    """Move LaTeX files that another input reads with \\input from `inputs` to `skipped`."""
+    from .ingest.latex import input_files
+
+    main_files = [name for name in inputs if name.lower().endswith(".tex")]
+    part_of: dict[str, str] = {}
+    for main in main_files:
+        for part in input_files(main):
+            part_of.setdefault(os.path.realpath(part), main)
+    kept = []
+    for name in inputs:
+        main = part_of.get(os.path.realpath(name)) if name in found_in_folders else None
+        if main is not None and os.path.realpath(main) != os.path.realpath(name):
+            skipped.append(Skipped(name, f"part of {main}"))
+        else:
+            kept.append(name)
+    return kept, skipped
 
 
 def check_paths(paths: Iterable[str], settings: Settings | None = None,

@@ -66,7 +66,7 @@ class Location:
     normalisation); `line` is 1-based: per page for PDFs, per source file for text, LaTeX,
     HTML and JATS, within the paragraph or table cell for Word; `page` is 1-based or None for
     formats without pages. The other fields say more where the format has it: the LaTeX `file` (after
-    `\\input`), the `section` title (HTML, JATS), the `paragraph` number (Word, HTML, JATS), the
+    `\\input`), the `section` title (LaTeX, Word, HTML, JATS), the `paragraph` number (Word, HTML, JATS), the
     table `cell` ("table 2, row 3, column 1") and the `boxes` the claim covers on a PDF page.
     """
 
@@ -409,10 +409,18 @@ class Settings:
 
 
 @dataclass(frozen=True, slots=True)
+class Skipped:
+    """A file found while searching a folder that is not checked on its own, and why."""
+
+    path: str
+    reason: str  # "hidden", "not a manuscript format", "part of <main file>"
+
+
+@dataclass(frozen=True, slots=True)
 class Run:
     """The result of checking one or more inputs with one set of Settings."""
 
     settings: Settings
     documents: tuple[DocumentResult, ...]
-    #: files found while recursing folders that are not in a format scrutiny reads
-    skipped: tuple[str, ...] = ()
+    #: files found while searching folders and not checked on their own, each with the reason
+    skipped: tuple[Skipped, ...] = ()

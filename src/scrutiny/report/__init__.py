@@ -6,6 +6,7 @@ caution that a flag is a prompt to look, not proof of error or misconduct.
 
 from __future__ import annotations
 
+from collections import Counter
 from dataclasses import dataclass
 from typing import TextIO
 
@@ -31,6 +32,8 @@ class Summary:
     decision_flips: int
     unchecked: int
     flags: int
+    #: (reason, count) of the skipped files, "part of ..." reasons counted together
+    skipped_by_reason: tuple[tuple[str, int], ...] = ()
 
     @classmethod
     def of(cls, run: Run) -> "Summary":
@@ -46,6 +49,9 @@ class Summary:
                                                         for f in c.flags)),
             unchecked=sum(1 for c in claims if c.status is Status.UNCHECKED),
             flags=sum(len(c.flags) for c in claims),
+            skipped_by_reason=tuple(Counter(
+                "part of a LaTeX manuscript" if s.reason.startswith("part of ") else s.reason
+                for s in run.skipped).items()),
         )
 
     def line(self) -> str:
@@ -60,8 +66,9 @@ class Summary:
         if self.unreadable:
             inputs += f" ({self.unreadable} could not be read)"
         if self.skipped:
-            inputs += f", {self.skipped} other file{'s' if self.skipped != 1 else ''} skipped " \
-                      "(hidden, or not a manuscript format)"
+            reasons = ", ".join(f"{count} {reason}" for reason, count in self.skipped_by_reason)
+            inputs += (f", {self.skipped} other file{'s' if self.skipped != 1 else ''} "
+                       f"skipped ({reasons})")
         return f"{inputs}: " + ", ".join(parts) + "."
 
 

@@ -162,7 +162,7 @@ def run_json(run: Run) -> dict[str, Any]:
             "flags": summary.flags,
         },
         "documents": [document_json(d) for d in run.documents],
-        "skipped": list(run.skipped),
+        "skipped": [{"path": skipped.path, "reason": skipped.reason} for skipped in run.skipped],
     }
 
 
