@@ -1,0 +1,279 @@
+"""Signs and Greek letters that a PDF's fonts print as other characters.
+
+Publisher fonts often lack a correct Unicode map, so that a text layer prints "=" as "¼", "⫽"
+or "5", "<" as "," or "⬍", ">" as ".", "≥" as "$", "≤" as "#", a minus as "2", or a sign as a
+control character (a glyph with no mapping at all, which pdfium gives as its character code),
+and "χ" as "c" or "v", "η" as "g" or "h". Which character stands for which sign is a property
+of the font, so it is decided per font and document, never per result:
+
+1. While each page is read, every place where only a sign can stand is collected with the
+   font of the glyph printed there: after a statistic with degrees of freedom
+   ("F(1, 22) ? 41.30", where only "=" can stand), after "df" and "N", after "p" ("p ? .001",
+   where "<", "=" or ">" can), after a statistic without degrees of freedom ("F ? 1"); and
+   every single letter printed before a "2" where a chi-square ("?2(1, N = 80)") or an eta
+   squared ("?2p = .21") must stand.
+2. A glyph counts only where nothing else explains it: an ordinary character ("," "." "5")
+   only when it is printed in another font than the characters on both sides of it (the
+   sign font of a publisher), an unusual one (a control character, a private-use character)
+   anywhere.
+3. For each font, the glyph seen where only "=" can stand is "="; a glyph known to stand for
+   a sign ("," for "<", "¼" for "=", ...) is that sign; another glyph after "p" is "<" (or
+   ">", when the p-values printed after it are mostly above .05). A letter in a font of its
+   own before a "2" is "χ" where degrees of freedom follow, "η" where an effect size does;
+   a "2" in such a font at the start of a number is a minus sign.
+4. Every collected place whose glyph and font have a meaning gets it; the reader notes each
+   mapping in the Document's notes.
+"""
+
+from __future__ import annotations
+
+import re
+from collections import Counter, defaultdict
+from dataclasses import dataclass
+
+#: characters known to stand for a sign in fonts without a correct Unicode map
+KNOWN_SIGNS = {",": "<", "\u2b0d": "<", ".": ">", "\u00bc": "=", "\u2afd": "=", "5": "=",
+               "$": "\u2265", "#": "\u2264"}
+#: comparison signs as Unicode prints them (no repair needed)
+_SIGNS = "=<>\u2264\u2265\u2266\u2267\u2a7d\u2a7e"
+
+# A sign slot: one glyph (group "sign") between something that must be followed by a sign
+# and a number. The glyph is any single character other than white space, a letter, a proper
+# sign or a bracket; digits count (a "5" for "=" or a "2" for a minus).
+_GLYPH = rf"(?P<sign>[^\s\w{_SIGNS}()\[\]]|[\x00-\x1f_\u00bc])"
+# A number, perhaps after one glyph that may stand for its minus sign (not a dash or a plus,
+# which need no repair).
+_NUMBER = (r"(?P<lead>[^\s\w.()\[\],;:+\-\u2010-\u2015\u2212]|[\x00-\x1f])?[ ]?"
+           r"(?P<number>\d+(?:\.\d+)?|\.\d+)")
+# The scans start with a character from a small set, so that the regex engine can skip quickly
+# through ordinary text; what must precede them is checked afterwards.
+_SLOTS = re.compile(
+    rf"""
+    (?: \b (?: (?P<df>df|[Nn])                  # df ? 28, N ? 80
+           | (?P<p>ps?)                        # p ? .001
+           | (?P<stat>[tFrzZ]s?|[χΧ][ ]?2) )   # F ? 1, χ2 ? 4.2
+    ) [ ]? {_GLYPH} [ ]? {_NUMBER}
+    """,
+    re.VERBOSE,
+)
+#: a sign after brackets (checked: brackets of a statistic's degrees of freedom)
+_BRACKET_SLOTS = re.compile(rf"(?P<close>[)\]])[ ]?(?:{_GLYPH}|(?P<digit>5))[ ]?{_NUMBER}")
+#: what must come before a closing bracket for the sign after it to be a statistic's
+_STATISTIC_BEFORE = re.compile(r"(?:(?<![A-Za-z])[tFrzZ]|[χΧ][ ]?2|(?<![A-Za-z])[A-Za-z]2)"
+                               r"[ ]?[(\[][^()\[\]\n]{1,40}$")
+# A "2" that may stand for a minus sign after a proper sign: "t(28) = 22.45" for "= -2.45".
+_MINUS_SLOTS = re.compile(r"[=<>\u2264\u2265][ ]?(?P<two>2)(?=[\d.])")
+# Any other unusual glyph before a number ("MSE ¼ 1,204.55"): not evidence of what it stands
+# for, but where it is read as what the evidence elsewhere says.
+_ODD_BEFORE_NUMBER = re.compile(
+    r"(?P<sign>[^\x00-\x7f\w\s\u2010-\u2015\u2212\u00b1\u00d7\u2264\u2265\u2248\u00b0"
+    r"\u2030\u2018\u2019\u201c\u201d\u00a0]|[\x00-\x08\x0e-\x1f\u00bc-\u00be])(?=[ ]?[-.\d])")
+# A sign inside the brackets of a statistic: "(1, N ? 80)".
+_BRACKET_SIGN = re.compile(rf"[Nn][ ]?{_GLYPH}[ ]?\d")
+# A "2" after a single letter where a Greek letter must stand: chi-square before degrees of
+# freedom ("c2(1, N = 80)"), eta squared before an effect size ("g2p = .21").
+_LETTER_SLOTS = re.compile(
+    r"""
+    2\s?
+    (?: (?P<chi>[(\[][ ]?\d)
+      | (?P<eta>(?:\n?[pPG])?\s?(?:[=\u00bc\u2afd]|[^\s\w])\s?0?\.\d) )
+    """,
+    re.VERBOSE,
+)
+_LETTER_BEFORE = re.compile(r"(?<![A-Za-z])[A-Za-z][ ]?\n?$")
+#: letters that are statistics in their own right and never stand for Greek ones here
+_NOT_GREEK = frozenset("tFrzZXxRpPNnd")
+
+
+@dataclass(slots=True)
+class Place:
+    """One glyph printed where a sign or a Greek letter must stand."""
+
+    page: int
+    line: int
+    offset: int
+    glyph: str
+    font: str
+    #: "equals" (only "=" can stand), "p", "statistic" (after a statistic without df),
+    #: "minus" (at the start of a number), "chi", "eta"
+    role: str
+    #: printed in a font other than the characters on both sides of it
+    foreign: bool
+    #: the number printed after a sign, as printed
+    value: str = ""
+
+
+def _ordinary(glyph: str) -> bool:
+    return " " < glyph < "\x7f"
+
+
+def collect(page_number: int, lines, text_page) -> list[Place]:
+    """The sign and letter slots of one page (lines: `pdf_layout.Line`s; text_page:
+    `pdf_layout.TextPage`)."""
+    if not lines:
+        return []
+    starts = []
+    position = 0
+    for line in lines:
+        starts.append(position)
+        position += len(line.text) + 1
+    text = "\n".join(line.text for line in lines)
+    places: list[Place] = []
+
+    def locate(offset: int) -> tuple[int, int]:
+        index = _line_of(starts, offset)
+        return index, offset - starts[index]
+
+    def font_at(offset: int) -> str | None:
+        index, within = locate(offset)
+        char = lines[index].char_at(within)
+        return None if char is None else text_page.font(char)
+
+    def neighbour_font(offset: int, step: int) -> str | None:
+        offset += step
+        while 0 <= offset < len(text) and text[offset].isspace():
+            offset += step
+        if not 0 <= offset < len(text):
+            return None
+        return font_at(offset)
+
+    def add(offset: int, role: str, value: str = "") -> None:
+        glyph = text[offset]
+        font = font_at(offset)
+        if font is None:
+            font = ""
+        after = neighbour_font(offset, 1)
+        if role == "minus":
+            # a minus sign may share its font with the sign before it; the digits are the test
+            foreign = after is not None and font != after
+        else:
+            before = neighbour_font(offset, -1)
+            foreign = (before is not None and after is not None and font != before
+                       and font != after)
+        if _ordinary(glyph) and not foreign:
+            return  # an ordinary character in the text's own font means what it says
+        index, within = locate(offset)
+        places.append(Place(page_number, index, within, glyph, font, role, foreign, value))
+
+    matches = list(_SLOTS.finditer(text))
+    if ")" in text or "]" in text:
+        matches.extend(_BRACKET_SLOTS.finditer(text))
+    for match in matches:
+        begin = match.start()
+        closing = match.re is _BRACKET_SLOTS
+        if closing:
+            if not _STATISTIC_BEFORE.search(text, max(0, begin - 50), begin):
+                continue
+            role = "equals"
+        elif match.group("df"):
+            role = "equals"
+        elif match.group("p"):
+            role = "p"
+        else:
+            role = "statistic"
+        sign = "digit" if closing and match.group("digit") else "sign"
+        add(match.start(sign), role, match.group("number"))
+        number = match.start("number")
+        if match.group("lead"):
+            add(match.start("lead"), "minus")
+        elif text[number] == "2" and number + 1 < len(text) and text[number + 1] in "0123456789.":
+            add(number, "minus")
+        if closing:
+            bracket = max(text.rfind("(", 0, begin), text.rfind("[", 0, begin))
+            for inner in _BRACKET_SIGN.finditer(text, bracket, begin):
+                add(inner.start("sign"), "equals")
+    for match in _ODD_BEFORE_NUMBER.finditer(text):
+        add(match.start("sign"), "other")
+    for match in _MINUS_SLOTS.finditer(text):
+        add(match.start("two"), "minus")
+    for match in _LETTER_SLOTS.finditer(text):
+        before = _LETTER_BEFORE.search(text, max(0, match.start() - 3), match.start())
+        if before is None or text[before.start()] in _NOT_GREEK:
+            continue
+        add(before.start(), "chi" if match.group("chi") else "eta")
+    return places
+
+
+def _line_of(starts: list[int], offset: int) -> int:
+    low, high = 0, len(starts) - 1
+    while low < high:
+        middle = (low + high + 1) // 2
+        if starts[middle] <= offset:
+            low = middle
+        else:
+            high = middle - 1
+    return low
+
+
+def _value(printed: str) -> float | None:
+    try:
+        return float(printed)
+    except ValueError:
+        return None
+
+
+def decide(places: list[Place]) -> dict[tuple[str, str, str], str]:
+    """What each (font, glyph, kind) stands for; kind is "sign", "minus" or "letter"."""
+    meaning: dict[tuple[str, str, str], str] = {}
+    roles: dict[tuple[str, str], Counter] = defaultdict(Counter)
+    values: dict[tuple[str, str], list[float]] = defaultdict(list)
+    for place in places:
+        key = (place.font, place.glyph)
+        roles[key][place.role] += 1
+        if place.role == "p":
+            value = _value(place.value)
+            if value is not None:
+                values[key].append(value)
+    unknown_p: dict[str, list[tuple[str, float]]] = defaultdict(list)
+    for (font, glyph), counts in roles.items():
+        equals, p, statistic = counts["equals"], counts["p"], counts["statistic"]
+        if equals or p or statistic:
+            if equals and equals >= p:
+                meaning[(font, glyph, "sign")] = "="
+            elif glyph in KNOWN_SIGNS:
+                meaning[(font, glyph, "sign")] = KNOWN_SIGNS[glyph]
+            elif p:
+                # below .05 counts for "<", above for ">"
+                score = sum(1 if v < 0.05 else -1 if v > 0.05 else 0 for v in values[(font, glyph)])
+                unknown_p[font].append((glyph, score))
+        if counts["minus"]:
+            meaning[(font, glyph, "minus")] = "-"
+        if counts["chi"] or counts["eta"]:
+            meaning[(font, glyph, "letter")] = "χ" if counts["chi"] >= counts["eta"] else "η"
+    for font, glyphs in unknown_p.items():
+        glyphs.sort(key=lambda item: -item[1])
+        meaning[(font, glyphs[0][0], "sign")] = "<" if glyphs[0][1] >= 0 or len(glyphs) > 1 else ">"
+        if len(glyphs) > 1:
+            meaning[(font, glyphs[1][0], "sign")] = ">"
+    return meaning
+
+
+_KIND = {"equals": "sign", "p": "sign", "statistic": "sign", "other": "sign",
+         "minus": "minus", "chi": "letter", "eta": "letter"}
+
+
+def apply(places: list[Place], meaning: dict[tuple[str, str, str], str],
+          layouts) -> list[str]:
+    """Print each place's glyph as what it stands for; the notes that say so."""
+    done: Counter = Counter()
+    seen: set[tuple[int, int, int]] = set()
+    for place in places:
+        if (place.page, place.line, place.offset) in seen:
+            continue
+        seen.add((place.page, place.line, place.offset))
+        key = (place.font, place.glyph, _KIND[place.role])
+        replacement = meaning.get(key)
+        if replacement is None:
+            continue
+        line = layouts[place.page].lines[place.line]
+        if line.text[place.offset:place.offset + 1] != place.glyph:
+            continue
+        line.replace(place.offset, replacement)
+        done[key] += 1
+    notes = []
+    for (font, glyph, _), count in sorted(done.items()):
+        shown = repr(glyph) if _ordinary(glyph) else f"U+{ord(glyph):04X}"
+        notes.append(f"font {font or '(unnamed)'} prints {meaning[(font, glyph, _)]!r} as "
+                     f"{shown}: read as {meaning[(font, glyph, _)]!r} in {count} "
+                     f"place{'s' if count != 1 else ''}")
+    return notes

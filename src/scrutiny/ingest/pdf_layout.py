@@ -1,0 +1,831 @@
+"""The printed lines of one PDF page, in reading order, from pdfium's text layer.
+
+pdfium (through pypdfium2) gives a page's text in the order of its content stream, which keeps
+two-column manuscripts in reading order, and cuts it into lines. Each line here keeps, beside
+its text, which of pdfium's characters it came from (`pieces`), so that the box of any span of
+the text can be looked up later, and the box of its first and last printed characters, from
+which a few page-level repairs are made:
+
+* pieces of one printed line that pdfium put on lines of their own because a superscript or
+  subscript moved the baseline ("χ" / "2" / "(1, N = 80)") are joined again;
+* a word hyphenated at the end of a line, which pdfium joins into one line with a hyphen mark,
+  is cut into its two printed lines again (the hyphen is joined in normalisation);
+* characters whose glyph has no Unicode mapping, which pdfium leaves out of its text, are put
+  back as their character code (publisher math fonts; see `pdf_glyphs`);
+* text turned against the page (diagonal watermarks, stamps in the margin) is left out unless
+  most of the page is turned (a landscape table);
+* text outside the page, and invisible text (render mode 3, or clipped away: an old version of
+  a page embedded as a figure) that lies over visible text, is left out;
+* margin line numbers, which pdfium puts at the start or end of the line they stand beside,
+  are cut out;
+* two columns written line by line across the page (which pdfium merges into lines that run
+  across the gutter) are split at the gutter and read column by column.
+
+All boxes here are in PDF user space (points, origin at the bottom left of the media box).
+"""
+
+from __future__ import annotations
+
+import ctypes
+import math
+import re
+from dataclasses import dataclass, field
+
+import pypdfium2.raw as pdfium
+
+#: a generated line break of pdfium's text, and its mark of a word hyphenated at a line end
+_LINE_BREAK = re.compile("\r\n|\ufffe")
+#: an integer printed in the margin beside a line, at the line's start or end
+_NUMBER_AT_START = re.compile(r"\s*(\d{1,5})(?=\s)")
+_NUMBER_AT_END = re.compile(r"(?<=\s)(\d{1,5})\s*$")
+_ONLY_NUMBER = re.compile(r"\s*\d{1,5}\s*$")
+#: render modes that paint nothing (3: invisible, 7: clip only)
+_INVISIBLE_MODES = (3, 7)
+_TURNED = 0.05  # radians: a character turned further than this is not upright
+
+
+@dataclass(slots=True)
+class Line:
+    """One line of text on a page and the pdfium characters behind it."""
+
+    text: str
+    #: (offset in `text`, index of pdfium's character for it, length): runs of characters that
+    #: correspond one to one; characters outside every piece have no box (inserted ones)
+    pieces: list[tuple[int, int, int]]
+    x0: float = 0.0
+    bottom: float = 0.0
+    x1: float = 0.0
+    top: float = 0.0
+    #: the line's first or last character is turned against the page
+    turned: bool = False
+    #: x1 is the right edge of the last character (else an estimate from the line's length)
+    exact: bool = True
+
+    @property
+    def height(self) -> float:
+        return self.top - self.bottom
+
+    def char_at(self, offset: int) -> int | None:
+        for start, char, length in self.pieces:
+            if start <= offset < start + length:
+                return char + offset - start
+        return None
+
+    def cut(self, start: int, end: int) -> None:
+        """Remove text[start:end]."""
+        removed = end - start
+        pieces = []
+        for piece_start, char, length in self.pieces:
+            piece_end = piece_start + length
+            if piece_end <= start:
+                pieces.append((piece_start, char, length))
+            elif piece_start >= end:
+                pieces.append((piece_start - removed, char, length))
+            else:
+                if piece_start < start:
+                    pieces.append((piece_start, char, start - piece_start))
+                if piece_end > end:
+                    pieces.append((start, char + end - piece_start, piece_end - end))
+        self.pieces = pieces
+        self.text = self.text[:start] + self.text[end:]
+
+    def replace(self, offset: int, character: str) -> None:
+        """Replace one character by one other character (the boxes stay)."""
+        self.text = self.text[:offset] + character + self.text[offset + 1:]
+
+    def extend(self, other: "Line", separator: str) -> None:
+        """Append another line's text (pieces of one printed line that pdfium cut)."""
+        shift = len(self.text) + len(separator)
+        self.pieces.extend((start + shift, char, length) for start, char, length in other.pieces)
+        self.text = self.text + separator + other.text
+        self.x0, self.x1 = min(self.x0, other.x0), max(self.x1, other.x1)
+        self.bottom, self.top = min(self.bottom, other.bottom), max(self.top, other.top)
+        self.turned = self.turned or other.turned
+        self.exact = other.exact
+
+
+@dataclass
+class PageLayout:
+    """The printed lines of one page and what was repaired on it."""
+
+    lines: list[Line]
+    #: the visible page (crop box) in user space, and its rotation in degrees clockwise
+    crop: tuple[float, float, float, float]
+    rotation: int
+    #: repairs made on this page, by kind (see `REPAIRS`), with counts
+    repairs: dict[str, int] = field(default_factory=dict)
+    #: characters on the page, and whether pdfium found any
+    characters: int = 0
+    #: left and right edge of characters where a claim may start or end, by pdfium's index
+    edges: dict[int, tuple[float, float]] = field(default_factory=dict)
+
+    def count(self, kind: str, number: int = 1) -> None:
+        self.repairs[kind] = self.repairs.get(kind, 0) + number
+
+
+class TextPage:
+    """Thin, fast access to one pdfium text page (pypdfium2's raw functions, reused buffers)."""
+
+    def __init__(self, raw_textpage) -> None:
+        self.raw = raw_textpage
+        self.count = pdfium.FPDFText_CountChars(raw_textpage)
+        self._rect = pdfium.FS_RECTF()
+        self._font_buffer = ctypes.create_string_buffer(256)
+        self._flags = ctypes.c_int()
+
+    def box(self, char: int) -> tuple[float, float, float, float]:
+        """The loose box (left, bottom, right, top) of a character: its font's full height."""
+        rect = self._rect
+        pdfium.FPDFText_GetLooseCharBox(self.raw, char, rect)
+        return rect.left, rect.bottom, rect.right, rect.top
+
+    def angle(self, char: int) -> float:
+        return pdfium.FPDFText_GetCharAngle(self.raw, char)
+
+    def unicode(self, char: int) -> int:
+        return pdfium.FPDFText_GetUnicode(self.raw, char)
+
+    def font(self, char: int) -> str:
+        """The name of the font a character is printed in ("" when the font has none)."""
+        length = pdfium.FPDFText_GetFontInfo(self.raw, char, self._font_buffer, 256, self._flags)
+        if length <= 0:
+            return ""
+        name = self._font_buffer.value.decode("latin-1", "replace")
+        # Subset fonts carry a six-letter tag ("JMDKFP+AdvP49811"); the tag differs between
+        # subsets of one font, so the name without it identifies the font.
+        return name.split("+", 1)[1] if len(name) > 7 and name[6] == "+" else name
+
+    def text(self) -> tuple[str, int]:
+        """The page's text and its length in UTF-16 code units."""
+        buffer = (ctypes.c_ushort * (self.count + 1))()
+        written = pdfium.FPDFText_GetText(self.raw, 0, self.count, buffer)
+        units = max(0, written - 1)
+        return bytes(memoryview(buffer).cast("B")[:2 * units]).decode("utf-16-le", "replace"), units
+
+
+def _text_to_chars(page: TextPage, text: str, units: int) -> tuple[str, list[int] | None]:
+    """Map each character of `text` to pdfium's character index.
+
+    Returns the text and None when they correspond one to one (nearly always). Otherwise the
+    text with every character pdfium left out of it put back (glyphs without a Unicode
+    mapping, as their character code) and the index of each of its characters (-1 where none).
+    """
+    if units == page.count and len(text) == units:
+        return text, None
+    indexes: list[int] = []
+    unit = 0
+    for character in text:
+        indexes.append(pdfium.FPDFText_GetCharIndexFromTextIndex(page.raw, unit))
+        unit += 2 if ord(character) > 0xFFFF else 1
+    seen = set(indexes)
+    # a character beyond the BMP is two of pdfium's characters (its surrogates)
+    seen.update(char + 1 for char, character in zip(indexes, text) if ord(character) > 0xFFFF)
+    missing = [char for char in range(page.count) if char not in seen]
+    if not missing:
+        return text, indexes
+    pieces, mapped = [], []
+    cursor = 0
+    for char in missing:
+        code = page.unicode(char)
+        if code == 0 or code in (0x0D, 0x0A):
+            continue
+        # put the left-out character after the last character of the text that precedes it
+        position = cursor
+        while position < len(indexes) and indexes[position] < char:
+            position += 1
+        pieces.append(text[cursor:position])
+        mapped.extend(indexes[cursor:position])
+        pieces.append(chr(code) if code < 0x110000 else "\ufffd")
+        mapped.append(char)
+        cursor = position
+    pieces.append(text[cursor:])
+    mapped.extend(indexes[cursor:])
+    return "".join(pieces), mapped
+
+
+def _raw_lines(page: TextPage, text: str, indexes: list[int] | None) -> list[Line]:
+    """Cut the page's text into pdfium's lines, with their characters and boxes."""
+    if indexes is None and "\ufffe" not in text:
+        return _plain_lines(page, text)
+    lines: list[Line] = []
+    start = 0
+    breaks: list = list(_LINE_BREAK.finditer(text))
+    breaks.append(None)
+    for found in breaks:
+        end = found.start() if found is not None else len(text)
+        hyphen = found is not None and found.group() == "\ufffe"
+        if hyphen:
+            char = found.start() if indexes is None else indexes[found.start()]
+            if char >= 0 and not pdfium.FPDFText_IsHyphen(page.raw, char):
+                continue  # a glyph mapped to nothing, not a hyphen: it stays in the line
+        segment = text[start:end] + ("-" if hyphen else "")
+        if segment.strip():
+            if indexes is None:
+                pieces = [(0, start, len(segment))]
+            else:
+                pieces = _pieces(indexes, start, start + len(segment))
+            line = Line(segment, pieces)
+            _measure(page, line)
+            lines.append(line)
+        start = found.end() if found is not None else len(text)
+    return lines
+
+
+def _plain_lines(page: TextPage, text: str) -> list[Line]:
+    """`_raw_lines` for the usual page: text and characters one to one, no hyphen marks.
+
+    Only the first character of each line is looked up; the right edge is estimated from the
+    line's length until something needs it exactly (`measure_end`).
+    """
+    lines: list[Line] = []
+    append = lines.append
+    raw = page.raw
+    rect = page._rect
+    get_box = pdfium.FPDFText_GetLooseCharBox
+    start = 0
+    for segment in text.split("\r\n"):
+        length = len(segment)
+        stripped = segment.strip()
+        if stripped:
+            get_box(raw, start + segment.index(stripped[0]), rect)
+            x0, bottom, top = rect.left, rect.bottom, rect.top
+            append(Line(segment, [(0, start, length)], x0, bottom,
+                        x0 + 0.5 * (top - bottom) * len(stripped), top, False, False))
+        start += length + 2
+    return lines
+
+
+def _pieces(indexes: list[int], start: int, end: int) -> list[tuple[int, int, int]]:
+    pieces: list[tuple[int, int, int]] = []
+    for offset in range(start, end):
+        char = indexes[offset]
+        if char < 0:
+            continue
+        if pieces:
+            piece_start, piece_char, length = pieces[-1]
+            if piece_start + length == offset - start and piece_char + length == char:
+                pieces[-1] = (piece_start, piece_char, length + 1)
+                continue
+        pieces.append((offset - start, char, 1))
+    return pieces
+
+
+def _measure(page: TextPage, line: Line) -> None:
+    """Set a line's box from its first and last printed characters."""
+    text = line.text
+    first_char = line.char_at(len(text) - len(text.lstrip()))
+    last_char = line.char_at(len(text.rstrip()) - 1)
+    if first_char is None or last_char is None:
+        chars = [c for _, c, n in line.pieces for c in (c, c + n - 1)]
+        if not chars:
+            return
+        first_char, last_char = min(chars), max(chars)
+    left, bottom, right, top = page.box(first_char)
+    left2, bottom2, right2, top2 = page.box(last_char)
+    line.x0, line.x1 = min(left, left2), max(right, right2)
+    line.bottom, line.top = min(bottom, bottom2), max(top, top2)
+
+
+def measure_end(page: TextPage, line: Line) -> None:
+    """Make a line's right edge exact: the right edge of its last printed character."""
+    if line.exact:
+        return
+    char = line.char_at(len(line.text.rstrip()) - 1)
+    line.exact = True
+    if char is None:
+        return
+    left, bottom, right, top = page.box(char)
+    line.x1 = max(line.x0, right)
+    line.bottom, line.top = min(line.bottom, bottom), max(line.top, top)
+
+
+def _is_turned(page: TextPage, line: Line) -> bool:
+    for offset in (len(line.text) - len(line.text.lstrip()), len(line.text.rstrip()) - 1):
+        char = line.char_at(offset)
+        if char is not None and abs(math.remainder(page.angle(char), 2 * math.pi)) > _TURNED:
+            return True
+    return False
+
+
+class Context:
+    """What reading the earlier pages of a document found out about the later ones."""
+
+    def __init__(self) -> None:
+        #: x positions (rounded points) of margin line numbers
+        self.line_number_anchors: set[int] = set()
+
+
+def read_page(raw_page, raw_textpage, context: Context | None = None) -> PageLayout:
+    """The printed lines of one page, repaired as the module docstring says."""
+    context = context or Context()
+    page = TextPage(raw_textpage)
+    left, bottom, right, top = (ctypes.c_float(), ctypes.c_float(), ctypes.c_float(),
+                                ctypes.c_float())
+    if not pdfium.FPDFPage_GetCropBox(raw_page, left, bottom, right, top):
+        pdfium.FPDFPage_GetMediaBox(raw_page, left, bottom, right, top)
+    crop = (min(left.value, right.value), min(bottom.value, top.value),
+            max(left.value, right.value), max(bottom.value, top.value))
+    if crop[2] - crop[0] < 1 or crop[3] - crop[1] < 1:
+        crop = (0.0, 0.0, pdfium.FPDF_GetPageWidthF(raw_page), pdfium.FPDF_GetPageHeightF(raw_page))
+    layout = PageLayout([], crop, (pdfium.FPDFPage_GetRotation(raw_page) % 4) * 90,
+                        characters=page.count)
+    if page.count <= 0:
+        return layout
+    text, units = page.text()
+    text, indexes = _text_to_chars(page, text, units)
+    if indexes is not None and len(text) > units:
+        layout.count("unmapped glyphs", len(text) - units)
+    lines = _raw_lines(page, text, indexes)
+    lines = _drop_turned(page, lines, layout)
+    lines = _drop_outside(lines, layout)
+    lines = _drop_hidden(page, raw_page, lines, layout)
+    lines = _split_interleaved_columns(page, lines, layout)
+    _cut_line_numbers(page, lines, layout, context.line_number_anchors)
+    layout.lines = _join_printed_lines(page, lines)
+    return layout
+
+
+# Where a claim may start (a symbol at the start of a word, a delta, emphasis) or end (the last
+# digit of a number, a bracket, "ns"), in lines that print a result. Their edges are kept, so
+# that the box of a claim can be given without reading the page a second time.
+_RESULT_LINE = re.compile("[=<>\u2264\u2265]")
+_CLAIM_EDGE = re.compile(r"(?<![^\W_])[tFrzZXxχΧ𝑡𝐹𝑟𝑧𝜒](?![a-rt-z])|[Δ∆*_]|[Cc](?=hi)"
+                         r"|\d(?!\d)|[)\]]|(?<=n)s\b|(?<=s)\.")
+
+
+def record_edges(text_page, layout: PageLayout, also: set[int] = frozenset()) -> None:
+    """Keep the edges of the characters where a claim may start or end, in lines with a
+    comparison sign (and the line after each) and in the lines `also`."""
+    page = text_page if isinstance(text_page, TextPage) else TextPage(text_page)
+    rect = page._rect
+    raw = page.raw
+    get_box = pdfium.FPDFText_GetLooseCharBox
+    edges = layout.edges
+    wanted = set(also)
+    for index, line in enumerate(layout.lines):
+        if _RESULT_LINE.search(line.text):
+            wanted.add(index)
+            wanted.add(index + 1)
+    for index in sorted(wanted):
+        if index >= len(layout.lines):
+            continue
+        line = layout.lines[index]
+        measure_end(page, line)
+        for found in _CLAIM_EDGE.finditer(line.text):
+            char = line.char_at(found.start())
+            if char is not None and char not in edges:
+                get_box(raw, char, rect)
+                edges[char] = (rect.left, rect.right)
+
+
+# -- turned text, text outside the page ------------------------------------------------------
+
+def _drop_turned(page: TextPage, lines: list[Line], layout: PageLayout) -> list[Line]:
+    """Leave out text turned against the page, unless most of the page is turned (a landscape
+    table). Only lines that look odd are examined: taller than the page's ordinary lines (a
+    large diagonal watermark, or one that pdfium appended to a line), higher than wide (a
+    stamp up the margin), or first or last on the page; of a line that mixes upright and
+    turned characters, the upright ones are kept."""
+    if not lines:
+        return lines
+    heights = sorted(line.top - line.bottom for line in lines)
+    ordinary = heights[len(heights) // 2]
+    suspects = {0, len(lines) - 1}
+    for index, line in enumerate(lines):
+        height = line.top - line.bottom
+        if height > 1.6 * ordinary or (line.x1 - line.x0) < height:
+            suspects.add(index)
+    turned = [index for index in sorted(suspects) if _is_turned(page, lines[index])]
+    if not turned:
+        return lines
+    if len(turned) * 2 > len(lines):
+        return lines  # a page printed turned (a landscape table): keep it
+    layout.count("turned text", len(turned))
+    for index in turned:
+        line = lines[index]
+        upright = [offset for offset in range(len(line.text))
+                   if (char := line.char_at(offset)) is not None
+                   and abs(math.remainder(page.angle(char), 2 * math.pi)) <= _TURNED]
+        if not any(line.text[offset].strip() for offset in upright):
+            line.text, line.pieces = "", []
+            continue
+        keep = set(upright)
+        for offset in reversed(range(len(line.text))):
+            if offset not in keep and line.char_at(offset) is not None:
+                line.cut(offset, offset + 1)
+        line.text = line.text.rstrip()
+        _measure(page, line)
+    return [line for line in lines if line.text.strip()]
+
+
+def _drop_outside(lines: list[Line], layout: PageLayout) -> list[Line]:
+    left, bottom, right, top = layout.crop
+    kept = [line for line in lines
+            if line.x1 > left and line.x0 < right and line.top > bottom and line.bottom < top]
+    if len(kept) < len(lines):
+        layout.count("text outside the page", len(lines) - len(kept))
+    return kept
+
+
+# -- invisible text over visible text ---------------------------------------------------------
+
+def _overlaps(a: Line, b: Line) -> bool:
+    width = min(a.x1, b.x1) - max(a.x0, b.x0)
+    height = min(a.top, b.top) - max(a.bottom, b.bottom)
+    if width <= 0 or height <= 0:
+        return False
+    return height > 0.5 * min(a.height, b.height) and width > 2 * max(a.height, b.height)
+
+
+def _has_overlapping_lines(lines: list[Line]) -> bool:
+    ordered = sorted(lines, key=lambda line: line.top, reverse=True)
+    for index, line in enumerate(ordered):
+        for other in ordered[index + 1:]:
+            if other.top <= line.bottom:
+                break
+            if _overlaps(line, other):
+                return True
+    return False
+
+
+def _object_key(raw_object) -> int:
+    return ctypes.cast(raw_object, ctypes.c_void_p).value or 0
+
+
+def _clip_box(raw_object) -> tuple[float, float, float, float] | None:
+    """The bounding box of an object's clip path, in the object's own space, if it has one."""
+    clip = pdfium.FPDFPageObj_GetClipPath(raw_object)
+    if not clip:
+        return None
+    paths = pdfium.FPDFClipPath_CountPaths(clip)
+    if paths <= 0:
+        return None
+    xs, ys = [], []
+    x, y = ctypes.c_float(), ctypes.c_float()
+    for path in range(paths):
+        for index in range(pdfium.FPDFClipPath_CountPathSegments(clip, path)):
+            segment = pdfium.FPDFClipPath_GetPathSegment(clip, path, index)
+            if segment and pdfium.FPDFPathSegment_GetPoint(segment, x, y):
+                xs.append(x.value)
+                ys.append(y.value)
+    if not xs:
+        return None
+    return min(xs), min(ys), max(xs), max(ys)
+
+
+def _bounds(raw_object) -> tuple[float, float, float, float] | None:
+    left, bottom, right, top = (ctypes.c_float(), ctypes.c_float(), ctypes.c_float(),
+                                ctypes.c_float())
+    if not pdfium.FPDFPageObj_GetBounds(raw_object, left, bottom, right, top):
+        return None
+    return left.value, bottom.value, right.value, top.value
+
+
+def _transform(matrix: tuple[float, ...], box: tuple[float, float, float, float]):
+    a, b, c, d, e, f = matrix
+    xs, ys = [], []
+    for x, y in ((box[0], box[1]), (box[0], box[3]), (box[2], box[1]), (box[2], box[3])):
+        xs.append(a * x + c * y + e)
+        ys.append(b * x + d * y + f)
+    return min(xs), min(ys), max(xs), max(ys)
+
+
+def _multiply(first: tuple[float, ...], then: tuple[float, ...]) -> tuple[float, ...]:
+    a, b, c, d, e, f = first
+    a2, b2, c2, d2, e2, f2 = then
+    return (a * a2 + b * c2, a * b2 + b * d2, c * a2 + d * c2, c * b2 + d * d2,
+            e * a2 + f * c2 + e2, e * b2 + f * d2 + f2)
+
+
+def _intersect(box, other):
+    if other is None:
+        return box
+    if box is None:
+        return other
+    return (max(box[0], other[0]), max(box[1], other[1]),
+            min(box[2], other[2]), min(box[3], other[3]))
+
+
+def _invisible_text_objects(raw_page) -> dict[int, tuple[float, float, float, float] | None]:
+    """Text objects that paint nothing or are clipped, with the visible window (page space)
+    of the clipped ones (None: nothing of the object is visible)."""
+    found: dict[int, tuple[float, float, float, float] | None] = {}
+    matrix = pdfium.FS_MATRIX()
+
+    def visit(raw_object, to_page: tuple[float, ...], window) -> None:
+        kind = pdfium.FPDFPageObj_GetType(raw_object)
+        own_clip = _clip_box(raw_object)
+        if kind == pdfium.FPDF_PAGEOBJ_TEXT:
+            clip = _intersect(window, own_clip and _transform(to_page, own_clip))
+            if pdfium.FPDFTextObj_GetTextRenderMode(raw_object) in _INVISIBLE_MODES:
+                found[_object_key(raw_object)] = None
+                return
+            if clip is None:
+                return
+            bounds = _bounds(raw_object)
+            if bounds is None:
+                return
+            box = _transform(to_page, bounds)
+            visible = _intersect(box, clip)
+            if visible[2] - visible[0] < 0.95 * (box[2] - box[0]) or \
+                    visible[3] - visible[1] < 0.5 * (box[3] - box[1]):
+                found[_object_key(raw_object)] = clip if visible[2] > visible[0] and \
+                    visible[3] > visible[1] else None
+        elif kind == pdfium.FPDF_PAGEOBJ_FORM:
+            # The form's clip is in the space its parent draws in; its objects are in the
+            # form's own space, which the form's matrix maps to the parent's.
+            inner_window = _intersect(window, own_clip and _transform(to_page, own_clip))
+            if pdfium.FPDFPageObj_GetMatrix(raw_object, matrix):
+                inner = _multiply((matrix.a, matrix.b, matrix.c, matrix.d, matrix.e, matrix.f),
+                                  to_page)
+            else:
+                inner = to_page
+            for index in range(pdfium.FPDFFormObj_CountObjects(raw_object)):
+                child = pdfium.FPDFFormObj_GetObject(raw_object, index)
+                if child:
+                    visit(child, inner, inner_window)
+
+    identity = (1.0, 0.0, 0.0, 1.0, 0.0, 0.0)
+    for index in range(pdfium.FPDFPage_CountObjects(raw_page)):
+        raw_object = pdfium.FPDFPage_GetObject(raw_page, index)
+        if raw_object:
+            visit(raw_object, identity, None)
+    return found
+
+
+def _drop_hidden(page: TextPage, raw_page, lines: list[Line], layout: PageLayout) -> list[Line]:
+    """Leave out invisible text that lies over visible text (a duplicate text layer).
+
+    Looked for only where printed lines overlap, which they do not on an ordinary page; a page
+    that has only invisible text (a scan with a recognised text layer) keeps it.
+    """
+    if len(lines) < 2 or not _has_overlapping_lines(lines):
+        return lines
+    invisible = _invisible_text_objects(raw_page)
+    if not invisible:
+        return lines
+    hidden_offsets: list[list[int]] = []
+    for line in lines:
+        hidden = []
+        for offset in range(len(line.text)):
+            char = line.char_at(offset)
+            if char is None:
+                continue
+            key = _object_key(pdfium.FPDFText_GetTextObject(page.raw, char))
+            if key in invisible:
+                window = invisible[key]
+                if window is not None:
+                    x0, y0, x1, y1 = page.box(char)
+                    cx, cy = (x0 + x1) / 2, (y0 + y1) / 2
+                    if window[0] <= cx <= window[2] and window[1] <= cy <= window[3]:
+                        continue
+                hidden.append(offset)
+        hidden_offsets.append(hidden)
+    if all(len(hidden) >= len(line.text.strip())
+           for line, hidden in zip(lines, hidden_offsets)):
+        return lines  # nothing visible at all (a scan's recognised text): keep what there is
+    kept: list[Line] = []
+    dropped = 0
+    for line, hidden in zip(lines, hidden_offsets):
+        if not hidden:
+            kept.append(line)
+            continue
+        dropped += 1
+        if len(hidden) >= len(line.text.strip()):
+            continue
+        # keep the visible part of a line that mixes both
+        for offset in reversed(hidden):
+            line.cut(offset, offset + 1)
+        if line.text.strip():
+            _measure(page, line)
+            kept.append(line)
+    if dropped:
+        layout.count("invisible text", dropped)
+    return kept
+
+
+# -- columns written line by line across the page ---------------------------------------------
+
+def _gap_near(page: TextPage, line: Line, x: float) -> tuple[float, float, int] | None:
+    """The widest gap between neighbouring characters of a line near `x`: (left edge, right
+    edge, offset of the first character after the gap)."""
+    offsets = [offset for offset, character in enumerate(line.text)
+               if not character.isspace() and line.char_at(offset) is not None]
+    if len(offsets) < 4:
+        return None
+    # binary search for the first character that starts right of x
+    low, high = 0, len(offsets) - 1
+    while low < high:
+        middle = (low + high) // 2
+        if page.box(line.char_at(offsets[middle]))[0] < x:
+            low = middle + 1
+        else:
+            high = middle
+    best = None
+    for index in range(max(1, low - 3), min(len(offsets), low + 4)):
+        right_edge = page.box(line.char_at(offsets[index - 1]))[2]
+        left_edge = page.box(line.char_at(offsets[index]))[0]
+        if best is None or left_edge - right_edge > best[1] - best[0]:
+            best = (right_edge, left_edge, offsets[index])
+    return best
+
+
+def _split_interleaved_columns(page: TextPage, lines: list[Line],
+                               layout: PageLayout) -> list[Line]:
+    """Read two columns that the content stream wrote line by line across the page."""
+    if len(lines) < 8:
+        return lines
+    left = min(line.x0 for line in lines)
+    right = max(line.x1 for line in lines)
+    middle = (left + right) / 2
+    wide = [line for line in lines
+            if line.x0 < middle - 0.15 * (right - left) and line.x1 > middle + 0.15 * (right - left)]
+    if len(wide) < 6:
+        return lines
+    step = max(1, len(wide) // 12)
+    sample = wide[::step][:12]
+    gaps = []
+    for line in sample:
+        gap = _gap_near(page, line, middle)
+        if gap is not None and gap[1] - gap[0] > max(1.2 * line.height, 6.0):
+            gaps.append(gap)
+    if len(gaps) < max(4, 2 * len(sample) // 3):
+        return lines
+    gutter_left = sorted(gap[0] for gap in gaps)[len(gaps) // 2]
+    gutter_right = sorted(gap[1] for gap in gaps)[len(gaps) // 2]
+    # Columns of text: the right column's lines start at one x, and the lines of the left
+    # column either end at one x (justified) or are about as long as those of the right one;
+    # a table of contents ("Method .... Page 12") or a table has short right parts.
+    starts_aligned = sum(1 for gap in gaps if abs(gap[1] - gutter_right) <= 2.0)
+    ends_aligned = sum(1 for gap in gaps if abs(gap[0] - gutter_left) <= 2.0)
+    for line in sample:
+        measure_end(page, line)
+    right_widths = sorted(line.x1 - gutter_right for line in sample)
+    left_widths = sorted(gutter_left - line.x0 for line in sample)
+    wide_right = right_widths[len(right_widths) // 2] >= 0.6 * left_widths[len(left_widths) // 2]
+    if starts_aligned < 2 * len(gaps) / 3 or not (ends_aligned >= len(gaps) / 2 or wide_right):
+        return lines
+    gutter = (gutter_left + gutter_right) / 2
+    for line in lines:
+        measure_end(page, line)
+    # Split every line that crosses the gutter; then read the left column, then the right,
+    # block by block between lines that span both columns (titles, wide figures).
+    blocks: list[tuple[list[Line], list[Line]]] = [([], [])]
+    spanning: list[Line] = []
+    split = 0
+    for line in lines:
+        if line.x1 <= gutter_right - 2.0:
+            blocks[-1][0].append(line)
+        elif line.x0 >= gutter:
+            blocks[-1][1].append(line)
+        else:
+            gap = _gap_near(page, line, gutter)
+            if (gap is not None and abs(gap[1] - gutter_right) <= 2.0
+                    and gap[1] - gap[0] > max(line.height, 6.0)):
+                right_part = Line(line.text, list(line.pieces))
+                right_part.cut(0, gap[2])
+                line.cut(gap[2], len(line.text))
+                for part in (line, right_part):
+                    part.text = part.text.rstrip() if part is line else part.text
+                    _measure(page, part)
+                blocks[-1][0].append(line)
+                blocks[-1][1].append(right_part)
+                split += 1
+            else:
+                spanning.append(line)
+                blocks.append(([line], []))
+                blocks.append(([], []))
+    if not split:
+        return lines
+    layout.count("columns put in reading order")
+    return [line for left_lines, right_lines in blocks for line in left_lines + right_lines]
+
+
+# -- margin line numbers ---------------------------------------------------------------------
+
+def _cut_line_numbers(page: TextPage, lines: list[Line], layout: PageLayout,
+                      known_anchors: set[int]) -> None:
+    """Cut out line numbers printed in the margin beside the lines.
+
+    A number counts as a line number when at least three lines of the page carry one at the
+    same distance from the page edge, set off from the text by more than a word space, and the
+    numbers grow down the page in step with the lines; on a page with fewer such lines, where
+    an earlier page had line numbers at that distance (`known_anchors`, which this adds to).
+    """
+    candidates: list[tuple[str, Line, int, int, float, int]] = []
+    for line in lines:
+        text = line.text
+        if not (text[-1:].isdigit() or text[:1].isdigit() or text[1:2].isdigit()
+                or text.rstrip()[-1:].isdigit()):
+            continue
+        found = _ONLY_NUMBER.match(line.text)
+        if found:
+            candidates.append(("alone", line, 0, len(line.text), line.x0, int(line.text)))
+            continue
+        found = _NUMBER_AT_START.match(line.text)
+        if found:
+            candidates.append(("start", line, found.start(1), found.end(1), 0.0,
+                               int(found.group(1))))
+        found = _NUMBER_AT_END.search(line.text)
+        if found:
+            candidates.append(("end", line, found.start(1), found.end(1), 0.0,
+                               int(found.group(1))))
+    if not candidates or (len(candidates) < 3 and not known_anchors):
+        return
+    margin_numbers = []
+    for kind, line, start, end, _, value in candidates:
+        first, last = line.char_at(start), line.char_at(end - 1)
+        if first is None or last is None:
+            continue
+        number_left, _, number_right, _ = page.box(first)
+        number_right = page.box(last)[2]
+        if kind == "start":
+            rest = len(line.text) - len(line.text[end:].lstrip())
+            neighbour = line.char_at(rest)
+            if neighbour is None or page.box(neighbour)[0] - number_right < 1.0 * line.height:
+                continue
+        elif kind == "end":
+            rest = len(line.text[:start].rstrip()) - 1
+            neighbour = line.char_at(rest)
+            if neighbour is None or number_left - page.box(neighbour)[2] < 1.0 * line.height:
+                continue
+        anchor = number_right if kind != "end" else number_left
+        margin_numbers.append((round(anchor), kind, line, start, end, value))
+    by_anchor: dict[int, list] = {}
+    for entry in margin_numbers:
+        # numbers right-aligned at one x (or left-aligned, for numbers after the line)
+        for key in (entry[0] - 1, entry[0], entry[0] + 1):
+            if key in by_anchor:
+                by_anchor[key].append(entry)
+                break
+        else:
+            by_anchor[entry[0]] = [entry]
+    cut = 0
+    for anchor, entries in by_anchor.items():
+        ordered = sorted(entries, key=lambda entry: -entry[2].top)
+        if len(entries) >= 3 and _numbered_like_lines(ordered):
+            known_anchors.add(anchor)
+        elif not (known_anchors & {anchor - 1, anchor, anchor + 1}) or any(
+                b[5] <= a[5] for a, b in zip(ordered, ordered[1:])):
+            # too few to tell by themselves: numbers where earlier pages had line numbers
+            continue
+        for _, kind, line, start, end, _ in entries:
+            if kind == "alone":
+                line.text, line.pieces = "", []
+            elif kind == "start":
+                stop = end + len(line.text[end:]) - len(line.text[end:].lstrip())
+                line.cut(start, stop)
+                _measure(page, line)
+            else:
+                begin = len(line.text[:start].rstrip())
+                line.cut(begin, len(line.text))
+                _measure(page, line)
+            cut += 1
+    if cut:
+        lines[:] = [line for line in lines if line.text.strip()]
+        layout.count("margin line numbers", cut)
+
+
+def _numbered_like_lines(ordered: list) -> bool:
+    """Numbers that grow down the page in step with the lines they stand beside (every line,
+    or every fifth), not the first column of a table ("111", "112", "121", ...)."""
+    steps = []
+    for (_, _, above, _, _, upper), (_, _, below, _, _, lower) in zip(ordered, ordered[1:]):
+        if lower <= upper:
+            steps.append(None)
+        else:
+            steps.append((above.top - below.top) / (lower - upper))
+    spacing = sorted(step for step in steps if step is not None)
+    if len(spacing) < 0.8 * len(steps) or not spacing:
+        return False
+    typical = spacing[len(spacing) // 2]
+    if typical <= 0:
+        return False
+    regular = sum(1 for step in spacing if abs(step - typical) <= 0.15 * typical)
+    return regular >= 0.8 * len(steps)
+
+
+# -- pieces of one printed line --------------------------------------------------------------
+
+def _join_printed_lines(page: TextPage, lines: list[Line]) -> list[Line]:
+    """Join lines that continue one printed line (pdfium starts a new line where a
+    superscript or subscript moves the baseline)."""
+    joined: list[Line] = []
+    for line in lines:
+        if joined:
+            previous = joined[-1]
+            overlap = min(previous.top, line.top) - max(previous.bottom, line.bottom)
+            if overlap <= 0:
+                joined.append(line)
+                continue
+            measure_end(page, previous)
+            gap = line.x0 - previous.x1
+            size = max(previous.height, line.height, 1.0)
+            if (overlap > 0.3 * min(previous.height, line.height) and -0.5 < gap < 1.0 * size
+                    and not previous.text.endswith("-")):
+                separator = "" if (gap < 0.15 * size or line.text[:1].isspace()
+                                   or previous.text[-1:].isspace()) else " "
+                previous.extend(line, separator)
+                continue
+        joined.append(line)
+    return joined
