@@ -7,6 +7,7 @@ A manuscript is written as paragraphs in a small markup that says how each piece
     {sym:<}     a sign printed in a separate math-symbol font ("p {sym:<} .001")
     {greek:χ}   a Greek letter printed in a separate Greek font
     {it:t}      a letter printed in the italic font
+    {gap}       a little space (a fifth of the font size) without a space character
     {shy}       a place where a word may be hyphenated at the end of a line
     {hy}        a word hyphenated here at the end of a line ("signifi{hy}cant")
     {br}        a forced line break
@@ -92,7 +93,8 @@ FONTS_AVAILABLE = _register_fonts()
 
 _TOKEN = re.compile(r"\^\{(?P<sup>[^}]*)\}|_\{(?P<sub>[^}]*)\}|\{sym:(?P<sym>[^}]*)\}"
                     r"|\{greek:(?P<greek>[^}]*)\}|\{it:(?P<it>[^}]*)\}|(?P<shy>\{shy\})"
-                    r"|(?P<hy>\{hy\})|(?P<br>\{br\})|(?P<col>\{col\})|(?P<space>[ \t\n]+)"
+                    r"|(?P<hy>\{hy\})|(?P<br>\{br\})|(?P<col>\{col\})|(?P<gap>\{gap\})"
+                    r"|(?P<space>[ \t\n]+)"
                     r"|(?P<text>[^ \t\n^_{]+|.)")
 
 
@@ -115,7 +117,7 @@ def plain_text(paragraphs: list[str]) -> str:
     out = []
     for paragraph in paragraphs:
         text = (paragraph.replace("{shy}", "").replace("{hy}", "").replace("{br}", " ")
-                .replace("{col}", " "))
+                .replace("{col}", " ").replace("{gap}", ""))
         text = re.sub(r"\^\{([^}]*)\}|_\{([^}]*)\}|\{(?:sym|greek|it):([^}]*)\}",
                       lambda m: m.group(1) or m.group(2) or m.group(3) or "", text)
         out.append(text)
@@ -144,6 +146,8 @@ def _words(paragraph: str) -> list[_Word]:
             finish(forced=True)
         elif kind == "col":
             finish(column=True)
+        elif kind == "gap":
+            current[-1].append(Run("", "gap"))
         elif kind == "hy":
             current[-1].append(Run("-"))
             finish(forced=True)
@@ -158,7 +162,9 @@ def _words(paragraph: str) -> list[_Word]:
 # -- layout ----------------------------------------------------------------------------------
 
 _STYLE_FONT = {"body": "FactoryBody", "sup": "FactoryBody", "sub": "FactoryBody",
-               "sym": "FactorySymbol", "greek": "FactoryGreek", "it": "FactoryItalic"}
+               "sym": "FactorySymbol", "greek": "FactoryGreek", "it": "FactoryItalic",
+               "gap": "FactoryBody"}
+_GAP = 0.22  # of the font size: pdfium makes up a space for gaps from about a fifth
 
 
 @dataclass
@@ -244,9 +250,14 @@ def _rise(style: str, size: float) -> float:
     return {"sup": 0.35 * size, "sub": -0.2 * size}.get(style, 0.0)
 
 
+def _run_width(run: Run, size: float) -> float:
+    if run.style == "gap":
+        return _GAP * size
+    return pdfmetrics.stringWidth(run.text, _STYLE_FONT[run.style], _run_size(run.style, size))
+
+
 def _width(runs: list[Run], size: float) -> float:
-    return sum(pdfmetrics.stringWidth(r.text, _STYLE_FONT[r.style], _run_size(r.style, size))
-               for r in runs)
+    return sum(_run_width(run, size) for run in runs)
 
 
 @dataclass
@@ -285,8 +296,7 @@ def _layout(paragraphs: list[str], layout: Layout) -> list[PlacedLine]:
         baseline = top - layout.font_size - row * layout.leading
         placed_runs = []
         for run in runs:
-            width = pdfmetrics.stringWidth(run.text, _STYLE_FONT[run.style],
-                                           _run_size(run.style, size))
+            width = _run_width(run, size)
             placed_runs.append(PlacedRun(run.text, x, x + width, run.style,
                                          _run_size(run.style, size)))
             x += width
@@ -373,6 +383,18 @@ def _to_unicode_maps(maps: dict[str, dict[str, str]]) -> Iterator[None]:
 
 
 def _draw_line(pdf: canvas.Canvas, line: PlacedLine, size: float, mode: int = 0) -> None:
+    if any(run.style == "gap" for run in line.runs):
+        # each run on its own, where the layout put it
+        for run in line.runs:
+            if run.style == "gap" or not run.text:
+                continue
+            text = pdf.beginText(run.x0, line.baseline + _rise(run.style, size))
+            if mode:
+                text.setTextRenderMode(mode)
+            text.setFont(_STYLE_FONT[run.style], run.size)
+            text.textOut(run.text)
+            pdf.drawText(text)
+        return
     text = pdf.beginText(line.runs[0].x0 if line.runs else 0, line.baseline)
     if mode:
         text.setTextRenderMode(mode)

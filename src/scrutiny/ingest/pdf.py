@@ -68,6 +68,7 @@ _REPAIR_NOTES = {
     "columns put in reading order": "columns printed line by line across the page were read "
                                     "column by column (pages {pages})",
     "margin line numbers": "margin line numbers left out (pages {pages})",
+    "spaces in numbers": "{n} spaces inside numbers taken out (pages {pages})",
     "running heads": "running heads, feet and page numbers left out (pages {pages})",
 }
 
@@ -86,8 +87,10 @@ def _open(data: bytes, path: str) -> pypdfium.PdfDocument:
         if code == pdfium.FPDF_ERR_SECURITY:
             raise InputError(path, "encrypted PDF with an unsupported security handler: "
                                    "cannot be read") from None
-        raise InputError(path, "this is a PDF, but it is damaged or truncated and cannot be "
-                               "read") from None
+        if b"%%EOF" not in data[-_HEADER_REACH:]:
+            raise InputError(path, "this is a PDF, but it is truncated (the file stops before "
+                                   "its end) and cannot be read") from None
+        raise InputError(path, "this is a PDF, but it is damaged and cannot be read") from None
 
 
 def _page_ranges(numbers: list[int]) -> str:
@@ -145,6 +148,9 @@ def read(data: bytes, path: str) -> Document:
         raise InputError(path, "no text layer: scanned PDF, OCR not attempted")
 
     notes: list[str] = []
+    if b"%%EOF" not in data[-_HEADER_REACH:]:
+        notes.append("the file ends without a PDF's end-of-file marker (truncated?): what "
+                     "could be read was checked")
     meaning = pdf_glyphs.decide(places)
     notes.extend(pdf_glyphs.apply(places, meaning, layouts))
     _drop_running_heads(layouts)  # after the glyphs, whose places count lines

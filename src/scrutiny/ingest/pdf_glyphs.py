@@ -80,7 +80,8 @@ _LETTER_SLOTS = re.compile(
     """,
     re.VERBOSE,
 )
-_LETTER_BEFORE = re.compile(r"(?<![A-Za-z])[A-Za-z][ ]?\n?$")
+# The letter: any letter but a Greek one (which needs no repair), alone ("c2", "v2", "Ȥ2").
+_LETTER_BEFORE = re.compile(r"(?<![^\W\d_])[^\W\d_\u0370-\u03ff][ ]?\n?$")
 #: letters that are statistics in their own right and never stand for Greek ones here
 _NOT_GREEK = frozenset("tFrzZXxRpPNnd")
 

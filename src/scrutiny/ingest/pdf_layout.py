@@ -341,6 +341,7 @@ def read_page(raw_page, raw_textpage, context: Context | None = None) -> PageLay
     lines = _drop_hidden(page, raw_page, lines, layout)
     lines = _split_interleaved_columns(page, lines, layout)
     _cut_line_numbers(page, lines, layout, context.line_number_anchors)
+    _close_numbers(page, lines, layout)
     layout.lines = _join_printed_lines(page, lines)
     return layout
 
@@ -803,6 +804,32 @@ def _numbered_like_lines(ordered: list) -> bool:
         return False
     regular = sum(1 for step in spacing if abs(step - typical) <= 0.15 * typical)
     return regular >= 0.8 * len(steps)
+
+
+# -- numbers with a stray space -------------------------------------------------------------
+
+_SPACE_IN_NUMBER = re.compile(r"(?<=\d[.,]) (?=\d)|(?<=\d) (?=[.,]\d)")
+
+
+def _close_numbers(page: TextPage, lines: list[Line], layout: PageLayout) -> None:
+    """Take out a space that pdfium put into a number ("312. 48", "1, 204.37") because its
+    characters were set a little apart: a space pdfium made up (there is no space character),
+    narrower than a quarter of the font size, which no word space is."""
+    for line in lines:
+        text = line.text
+        if "," not in text and "." not in text:
+            continue
+        for found in reversed(list(_SPACE_IN_NUMBER.finditer(text))):
+            offset = found.start()
+            space = line.char_at(offset)
+            before, after = line.char_at(offset - 1), line.char_at(offset + 1)
+            if space is None or before is None or after is None or \
+                    not pdfium.FPDFText_IsGenerated(page.raw, space):
+                continue
+            size = pdfium.FPDFText_GetFontSize(page.raw, after)
+            if page.box(after)[0] - page.box(before)[2] < 0.25 * size:
+                line.cut(offset, offset + 1)
+                layout.count("spaces in numbers")
 
 
 # -- pieces of one printed line --------------------------------------------------------------
