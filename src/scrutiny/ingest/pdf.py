@@ -28,6 +28,8 @@ damaged files raise `InputError` with a one-line reason.
 
 from __future__ import annotations
 
+import contextlib
+import gc
 import re
 from array import array
 from bisect import bisect_right
@@ -39,7 +41,8 @@ import pypdfium2.raw as pdfium
 from ..errors import InputError
 from ..model import Box, Document, Segment
 from . import pdf_glyphs
-from .pdf_layout import Context, Line, PageLayout, TextPage, read_page, record_edges
+from .pdf_layout import (SIGN_NUMBER, Context, Line, PageLayout, TextPage, close_numbers,
+                         page_text, read_page, record_edges)
 
 FORMAT = "pdf"
 SUFFIXES = (".pdf",)
@@ -108,39 +111,58 @@ def _page_ranges(numbers: list[int]) -> str:
     return ", ".join(ranges)
 
 
+@contextlib.contextmanager
+def _without_cyclic_garbage_collection():
+    """Reading a long PDF makes tens of thousands of small objects and no reference cycles;
+    Python's cyclic collector would walk them again and again (a third of the reading time)."""
+    enabled = gc.isenabled()
+    gc.disable()
+    try:
+        yield
+    finally:
+        if enabled:
+            gc.enable()
+
+
 def read(data: bytes, path: str) -> Document:
+    with _without_cyclic_garbage_collection():
+        return _read(data, path)
+
+
+def _read(data: bytes, path: str) -> Document:
     from . import build_document
 
     document = _open(data, path)
     page_count = len(document)
-    layouts: list[PageLayout] = []
+    pages: list[_Page] = []
     places: list[pdf_glyphs.Place] = []
     characters = 0
     failed_pages = []
     context = Context()
     for index in range(page_count):
         raw_page = pdfium.FPDF_LoadPage(document.raw, index)
-        if not raw_page:
-            failed_pages.append(index + 1)
-            layouts.append(PageLayout([], (0.0, 0.0, 0.0, 0.0), 0))
-            continue
-        raw_textpage = pdfium.FPDFText_LoadPage(raw_page)
+        raw_textpage = pdfium.FPDFText_LoadPage(raw_page) if raw_page else None
         try:
             if not raw_textpage:
                 failed_pages.append(index + 1)
-                layouts.append(PageLayout([], (0.0, 0.0, 0.0, 0.0), 0))
+                pages.append(_Page.empty())
                 continue
             layout = read_page(raw_page, raw_textpage, context)
-            characters += sum(len(line.text.strip()) for line in layout.lines)
             text_page = TextPage(raw_textpage)
-            found = pdf_glyphs.collect(index, layout.lines, text_page)
-            places.extend(found)
-            record_edges(text_page, layout, {place.line for place in found})
-            layouts.append(layout)
+            text, starts = page_text(layout.lines)
+            if close_numbers(text_page, layout, text, starts):
+                text, starts = page_text(layout.lines)
+            characters += len(text) - text.count(" ") - len(starts)
+            sign_numbers = list(SIGN_NUMBER.finditer(text))
+            places.extend(pdf_glyphs.collect(index, layout.lines, text_page, text, starts,
+                                             sign_numbers))
+            record_edges(text_page, layout, text, starts, sign_numbers)
+            pages.append(_Page(layout, text, starts))
         finally:
             if raw_textpage:
                 pdfium.FPDFText_ClosePage(raw_textpage)
-            pdfium.FPDF_ClosePage(raw_page)
+            if raw_page:
+                pdfium.FPDF_ClosePage(raw_page)
     if characters < _MIN_CHARACTERS:
         if failed_pages and len(failed_pages) == page_count:
             raise InputError(path, "this is a PDF, but none of its pages can be read (damaged "
@@ -152,23 +174,25 @@ def read(data: bytes, path: str) -> Document:
         notes.append("the file ends without a PDF's end-of-file marker (truncated?): what "
                      "could be read was checked")
     meaning = pdf_glyphs.decide(places)
-    notes.extend(pdf_glyphs.apply(places, meaning, layouts))
-    _drop_running_heads(layouts)  # after the glyphs, whose places count lines
-    notes[:0] = _repair_notes(layouts)
-    empty = [number for number, layout in enumerate(layouts, start=1)
-             if layout.characters == 0 and number not in failed_pages]
+    notes.extend(pdf_glyphs.apply(places, meaning, pages))
+    _drop_running_heads(pages)  # after the glyphs, whose places count lines
+    for page in pages:
+        page.cut_control_characters()
+    notes[:0] = _repair_notes(pages)
+    empty = [number for number, page in enumerate(pages, start=1)
+             if not page.characters and number not in failed_pages]
     if empty:
         notes.append(f"no text layer on pages {_page_ranges(empty)} (scanned pages are not "
                      "read)")
     if failed_pages:
         notes.append(f"pages {_page_ranges(failed_pages)} could not be read (damaged)")
 
-    text, segments, geometry = _assemble(document, layouts)
+    text, segments, geometry = _assemble(document, pages)
     return build_document(path, FORMAT, text, segments=segments, pages=page_count,
                           geometry=geometry, notes=tuple(notes))
 
 
-def _repair_notes(layouts: list[PageLayout]) -> list[str]:
+def _repair_notes(layouts: list["_Page"]) -> list[str]:
     pages: dict[str, list[int]] = {}
     counts: Counter = Counter()
     for number, layout in enumerate(layouts, start=1):
@@ -184,89 +208,217 @@ def _repair_notes(layouts: list[PageLayout]) -> list[str]:
 
 # -- running heads and feet ------------------------------------------------------------------
 
-def _signature(line: Line) -> str:
-    return _SPACES.sub(" ", _DIGITS.sub("#", line.text)).strip().lower()
+def _signature(text: str) -> str:
+    return _SPACES.sub(" ", _DIGITS.sub("#", text)).strip().lower()
 
 
-def _drop_running_heads(layouts: list[PageLayout]) -> None:
+def _drop_running_heads(pages: list["_Page"]) -> None:
     """Leave out lines at the top or bottom of pages that repeat (but for their numbers) on
     several pages, and bare page numbers there."""
-    candidates: list[tuple[int, int, str]] = []
+    page_gaps = [gaps[len(gaps) // 4] for page in pages if len(gaps := page._line_gaps()) >= 8]
+    usual_gap = sorted(page_gaps)[len(page_gaps) // 2] if page_gaps else 0.0
+    heads = [page.head_candidates(usual_gap) for page in pages]
     seen: dict[str, set[int]] = {}
-    for page, layout in enumerate(layouts):
-        lines = layout.lines
-        if not lines:
-            continue
-        _, bottom, _, top = layout.crop
-        height = top - bottom
-        order = sorted(range(len(lines)), key=lambda i: -lines[i].top)
-        edge = order[:2] + order[-2:] if len(order) > 2 else order
-        for index in dict.fromkeys(edge):
-            line = lines[index]
-            if line.bottom < top - _BAND * height and line.top > bottom + _BAND * height:
-                continue
-            signature = _signature(line)
-            candidates.append((page, index, signature))
-            seen.setdefault(signature, set()).add(page)
-    repeats = _REPEATS if len(layouts) > 4 else 2
-    drop: dict[int, set[int]] = {}
-    for page, index, signature in candidates:
-        if _PAGE_NUMBER.match(signature) or (len(seen[signature]) >= repeats
-                                              and len(signature) > 1):
-            drop.setdefault(page, set()).add(index)
-    for page, indexes in drop.items():
-        layout = layouts[page]
-        layout.lines = [line for i, line in enumerate(layout.lines) if i not in indexes]
-        layout.count("running heads", len(indexes))
+    for number, candidates in enumerate(heads):
+        for _, signature in candidates:
+            seen.setdefault(signature, set()).add(number)
+    repeats = _REPEATS if len(pages) > 4 else 2
+    for page, candidates in zip(pages, heads):
+        drop = {index for index, signature in candidates
+                if _PAGE_NUMBER.match(signature)
+                or (len(seen[signature]) >= repeats and len(signature) > 1)}
+        if drop:
+            page.drop_lines(drop)
+            page.repairs["running heads"] = page.repairs.get("running heads", 0) + len(drop)
 
 
 # -- the Document's text and where each character came from ---------------------------------
 
-def _assemble(document: pypdfium.PdfDocument, layouts: list[PageLayout]):
+class _Page:
+    """One page as read, kept compact (a long PDF has thousands of lines): its text (the
+    lines joined by line breaks), where each line starts, the pdfium index of each line's
+    first character (-1 where the line is pieced together: `pieces`), the lines' boxes and
+    whether their right edges are exact, and the edges of characters where claims may start
+    or end. The lines themselves are kept only where control characters (glyphs without a
+    Unicode mapping) may have to be cut once the fonts are understood."""
+
+    __slots__ = ("text", "starts", "chars", "pieces", "boxes", "exact", "edges", "crop",
+                 "rotation", "repairs", "characters", "lines")
+
+    def __init__(self, layout: PageLayout | None, text: str = "",
+                 starts: list[int] | None = None) -> None:
+        self.text = text
+        self.starts = array("l", starts or ())
+        self.chars = array("l")
+        self.pieces: dict[int, list[tuple[int, int, int]]] = {}
+        #: left, bottom, right and top of each line
+        self.boxes = (array("d"), array("d"), array("d"), array("d"))
+        self.exact = bytearray()
+        self.edges: dict[int, tuple[float, float]] = {}
+        self.crop: tuple[float, float, float, float] = (0.0, 0.0, 0.0, 0.0)
+        self.rotation = 0
+        self.repairs: dict[str, int] = {}
+        self.characters = 0
+        self.lines: list[Line] | None = None
+        if layout is not None:
+            self._take(layout)
+
+    @classmethod
+    def empty(cls) -> "_Page":
+        return cls(None)
+
+    def _take(self, layout: PageLayout) -> None:
+        lines = layout.lines
+        self.crop, self.rotation = layout.crop, layout.rotation
+        self.repairs, self.characters, self.edges = layout.repairs, layout.characters, layout.edges
+        chars = [line.pieces for line in lines]
+        for index, pieces in enumerate(chars):
+            if pieces.__class__ is not int:
+                if len(pieces) == 1 and pieces[0][0] == 0 and pieces[0][2] >= len(lines[index].text):
+                    chars[index] = pieces[0][1]
+                else:
+                    chars[index] = -1
+                    self.pieces[index] = pieces
+        self.chars = array("l", chars)
+        self.boxes = (array("d", [line.x0 for line in lines]),
+                      array("d", [line.bottom for line in lines]),
+                      array("d", [line.x1 for line in lines]),
+                      array("d", [line.top for line in lines]))
+        self.exact = bytearray([line.exact for line in lines])
+        if _CONTROL.search(self.text):
+            self.lines = lines
+
+    def _line_gaps(self) -> list[float]:
+        """The spaces between vertically neighbouring lines (bottom to top of the next)."""
+        tops, bottoms = self.boxes[3], self.boxes[1]
+        order = sorted(range(len(tops)), key=tops.__getitem__)
+        return sorted(gap for below, above in zip(order, order[1:])
+                      if (gap := bottoms[above] - tops[below]) > 0.5)
+
+    def head_candidates(self, usual_gap: float) -> list[tuple[int, str]]:
+        """Lines that may be running heads or feet, with their signatures.
+
+        A running head or foot is the top or bottom line of the page (or the next one, beside
+        a head or foot), in the band at the page's edge, and set off from the lines beyond it
+        by more space than lines of text are set apart (the top line of a column is not a
+        running head). `usual_gap` is that space on an ordinary page of the document.
+        """
+        _, bottom, _, top = self.crop
+        height = top - bottom
+        tops, bottoms = self.boxes[3], self.boxes[1]
+        count = len(tops)
+        order = sorted(range(count), key=tops.__getitem__)
+        gaps = self._line_gaps()
+        usual = gaps[len(gaps) // 4] if len(gaps) >= 8 else usual_gap
+        candidates: list[int] = []
+        for position, at_foot, beyond in ((0, True, None), (1, True, 0),
+                                          (count - 1, False, None), (count - 2, False, count - 1)):
+            if not 0 <= position < count or position in candidates or \
+                    (beyond is not None and beyond not in candidates):
+                continue
+            index = order[position]
+            if at_foot:
+                if tops[index] > bottom + _BAND * height:
+                    continue
+                gap = bottoms[order[position + 1]] - tops[index] if position + 1 < count else height
+            else:
+                if bottoms[index] < top - _BAND * height:
+                    continue
+                gap = bottoms[index] - tops[order[position - 1]] if position >= 1 else height
+            if gap > max(1.5 * usual, 0.3 * (tops[index] - bottoms[index])):
+                candidates.append(position)
+        return [(order[position], _signature(self.line_text(order[position])))
+                for position in candidates]
+
+    def line_text(self, index: int) -> str:
+        end = self.starts[index + 1] - 1 if index + 1 < len(self.starts) else len(self.text)
+        return self.text[self.starts[index]:end]
+
+    def replace(self, line: int, offset: int, character: str) -> None:
+        """Replace one character by one other (a glyph read as what it stands for)."""
+        position = self.starts[line] + offset
+        self.text = self.text[:position] + character + self.text[position + 1:]
+        if self.lines is not None:
+            self.lines[line].replace(offset, character)
+
+    def drop_lines(self, indexes: set[int]) -> None:
+        count = len(self.starts)
+        keep = [i for i in range(count) if i not in indexes]
+        if keep and keep[-1] - keep[0] + 1 == len(keep):
+            # the usual case: heads first and feet last in the text; slices are enough
+            first, last = keep[0], keep[-1] + 1
+            begin = self.starts[first]
+            end = self.starts[last] - 1 if last < count else len(self.text)
+            self.text = self.text[begin:end]
+            self.starts = array("l", [start - begin for start in self.starts[first:last]])
+            self.chars = self.chars[first:last]
+            self.boxes = tuple(values[first:last] for values in self.boxes)
+            self.exact = self.exact[first:last]
+        else:
+            texts = [self.line_text(i) for i in keep]
+            position, starts = 0, []
+            for text in texts:
+                starts.append(position)
+                position += len(text) + 1
+            self.text = "\n".join(texts)
+            self.starts = array("l", starts)
+            self.chars = array("l", [self.chars[i] for i in keep])
+            self.boxes = tuple(array("d", [values[i] for i in keep]) for values in self.boxes)
+            self.exact = bytearray(self.exact[i] for i in keep)
+        self.pieces = {new: self.pieces[old] for new, old in enumerate(keep) if old in self.pieces}
+        if self.lines is not None:
+            self.lines = [self.lines[i] for i in keep]
+
+    def cut_control_characters(self) -> None:
+        """Cut the glyphs without a Unicode mapping that no font mapping explained."""
+        if self.lines is None or not _CONTROL.search(self.text):
+            return
+        for line in self.lines:
+            for found in reversed(list(_CONTROL.finditer(line.text))):
+                line.cut(found.start(), found.end())
+        lines = [line for line in self.lines if line.text.strip()]
+        layout = PageLayout(lines, self.crop, self.rotation, self.repairs, self.characters,
+                            self.edges)
+        text, starts = page_text(lines)
+        self.__init__(None, text, starts)
+        self._take(layout)
+        self.lines = None
+
+
+def _assemble(document: pypdfium.PdfDocument, pages: list[_Page]):
+    """The Document's text (the pages' lines, each ended by a line break) and where each of
+    its characters came from."""
     parts: list[str] = []
     segments: list[Segment] = []
     lines = _Lines()
     pieces = _Pieces()
-    # bound methods: this loop runs once for every line of the document
-    add_start, add_page = lines.starts.append, lines.pages.append
-    add_first, add_last = lines.first.append, lines.last.append
-    add_char, add_box, add_exact = lines.chars.append, lines.boxes.extend, lines.exact.append
-    add_part = parts.append
     position = 0
-    for number, layout in enumerate(layouts, start=1):
-        page_lines = [line for line in layout.lines if line.text.strip()]
-        if not page_lines:
+    for number, page in enumerate(pages, start=1):
+        if not page.starts:
             continue
-        page = number - 1
         segments.append(Segment(position, line=1, page=number))
-        check_control = any(_CONTROL.search(line.text) for line in page_lines)
-        for line in page_lines:
-            if check_control and _CONTROL.search(line.text):
-                for found in reversed(list(_CONTROL.finditer(line.text))):
-                    line.cut(found.start(), found.end())
-            text = line.text
-            length = len(text)
-            line_pieces = line.pieces
-            if len(line_pieces) == 1 and line_pieces[0][0] == 0 and line_pieces[0][2] >= length:
-                add_char(line_pieces[0][1])  # one to one: no pieces needed
-            else:
-                add_char(-1)
-                for start, char, count in line_pieces:
-                    if start < length:
-                        pieces.add(position + start, page, char, min(count, length - start))
-            add_start(position)
-            add_page(page)
-            add_first(position + length - len(text.lstrip()))
-            add_last(position + len(text.rstrip()) - 1)
-            add_box((line.x0, line.bottom, line.x1, line.top))
-            add_exact(line.exact)
-            add_part(text)
-            add_part("\n")
-            position += length + 1
+        lines.starts.extend([position + start for start in page.starts])
+        lines.pages.extend([number - 1] * len(page.starts))
+        lines.chars.extend(page.chars)
+        for values, more in zip(lines.boxes, page.boxes):
+            values.extend(more)
+        lines.exact.extend(page.exact)
+        for index, line_pieces in page.pieces.items():
+            start_of_line = position + page.starts[index]
+            length = len(page.line_text(index))
+            for start, char, count in line_pieces:
+                if start < length:
+                    pieces.add(start_of_line + start, number - 1, char,
+                               min(count, length - start))
+        parts.append(page.text)
+        parts.append("\n")
+        position += len(page.text) + 1
     text = "".join(parts)
-    pages = [(layout.crop, layout.rotation) for layout in layouts]
-    edges = [layout.edges for layout in layouts]
-    return text, tuple(segments), PdfGeometry(document, text, pages, pieces, lines, edges)
+    lines.starts.append(len(text))  # the end of the last line
+    geometry_pages = [(page.crop, page.rotation) for page in pages]
+    edges = [page.edges for page in pages]
+    return text, tuple(segments), PdfGeometry(document, text, geometry_pages, pieces, lines,
+                                              edges)
 
 
 class _Pieces:
@@ -298,13 +450,13 @@ class _Lines:
     the pdfium index of its first character where the line is one run of characters."""
 
     def __init__(self) -> None:
+        #: where each line starts in the text, and after the last, where the text ends
         self.starts = array("l")
         self.pages = array("l")
-        self.first = array("l")
-        self.last = array("l")
         #: pdfium's index of the line's first character, or -1 (see `_Pieces`)
         self.chars = array("l")
-        self.boxes = array("d")
+        #: left, bottom, right and top of each line
+        self.boxes = (array("d"), array("d"), array("d"), array("d"))
         #: 1 where the right edge in `boxes` is the last character's, 0 where estimated
         self.exact = bytearray()
 
@@ -389,21 +541,21 @@ class PdfGeometry:
     def boxes(self, start: int, end: int) -> tuple[Box, ...]:
         lines = self._lines
         text = self._text
-        first_line = max(0, bisect_right(lines.starts, start) - 1)
+        index = max(0, bisect_right(lines.starts, start) - 1)
         found = []
-        index = first_line
-        while index < len(lines.starts) and lines.starts[index] < end:
-            line_end = lines.last[index] + 1
-            span_start, span_end = max(start, lines.starts[index]), min(end, line_end)
-            segment = text[span_start:span_end]
-            stripped = segment.strip()
-            if stripped:
-                first = span_start + segment.index(stripped[0])
-                last = span_start + len(segment.rstrip()) - 1
-                x0, bottom, x1, top = lines.boxes[4 * index:4 * index + 4]
-                if first > lines.first[index]:
+        while index < len(lines.pages) and lines.starts[index] < end:
+            line_start, line_end = lines.starts[index], lines.starts[index + 1] - 1
+            line = text[line_start:line_end]
+            printed = line.strip()
+            span = text[max(start, line_start):min(end, line_end)]
+            stripped = span.strip()
+            if stripped and printed:
+                first = max(start, line_start) + span.index(stripped[0])
+                last = max(start, line_start) + len(span.rstrip()) - 1
+                x0, bottom, x1, top = (values[index] for values in lines.boxes)
+                if first > line_start + line.index(printed[0]):
                     x0 = self._edge(first, right=False) or x0
-                if last < lines.last[index] or not lines.exact[index]:
+                if last < line_start + len(line.rstrip()) - 1 or not lines.exact[index]:
                     x1 = self._edge(last, right=True) or x1
                 found.append(self._to_top_left(lines.pages[index], (x0, bottom, x1, top)))
             index += 1

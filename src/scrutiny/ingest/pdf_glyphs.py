@@ -28,6 +28,7 @@ of the font, so it is decided per font and document, never per result:
 from __future__ import annotations
 
 import re
+from bisect import bisect_right
 from collections import Counter, defaultdict
 from dataclasses import dataclass
 
@@ -37,37 +38,38 @@ KNOWN_SIGNS = {",": "<", "\u2b0d": "<", ".": ">", "\u00bc": "=", "\u2afd": "=", 
 #: comparison signs as Unicode prints them (no repair needed)
 _SIGNS = "=<>\u2264\u2265\u2266\u2267\u2a7d\u2a7e"
 
-# A sign slot: one glyph (group "sign") between something that must be followed by a sign
-# and a number. The glyph is any single character other than white space, a letter, a proper
-# sign or a bracket; digits count (a "5" for "=" or a "2" for a minus).
-_GLYPH = rf"(?P<sign>[^\s\w{_SIGNS}()\[\]]|[\x00-\x1f_\u00bc])"
+# An unusual glyph: a control character (a glyph pdfium could not map), a fraction, an arrow, a
+# geometric shape, a supplemental math operator, a private-use character or a replacement
+# character; such glyphs are what fonts without a correct Unicode map print for signs.
+_ODD = (r"[\x00-\x08\x0e-\x1f\u00bc-\u00be\u2190-\u21ff\u25a0-\u25ff\u2a00-\u2bff"
+        r"\ue000-\uf8ff\ufffd\ufffe]")
+# A sign slot: one glyph (group "sign") where only a sign can stand, before a number: an
+# ordinary character known to stand for a sign in such fonts, or an unusual one.
+_GLYPH = rf"(?P<sign>[,.$#]|{_ODD})"
 # A number, perhaps after one glyph that may stand for its minus sign (not a dash or a plus,
 # which need no repair).
 _NUMBER = (r"(?P<lead>[^\s\w.()\[\],;:+\-\u2010-\u2015\u2212]|[\x00-\x1f])?[ ]?"
            r"(?P<number>\d+(?:\.\d+)?|\.\d+)")
-# The scans start with a character from a small set, so that the regex engine can skip quickly
-# through ordinary text; what must precede them is checked afterwards.
-_SLOTS = re.compile(
-    rf"""
-    (?: \b (?: (?P<df>df|[Nn])                  # df ? 28, N ? 80
-           | (?P<p>ps?)                        # p ? .001
-           | (?P<stat>[tFrzZ]s?|[χΧ][ ]?2) )   # F ? 1, χ2 ? 4.2
-    ) [ ]? {_GLYPH} [ ]? {_NUMBER}
-    """,
-    re.VERBOSE,
-)
+# The scan starts with the glyph (so that the regex engine skips quickly through ordinary
+# text) and then looks behind it, glyph included, for what must precede it.
+_HEADS = {"df": "df", "N": "df", "n": "df", "p": "p", "ps": "p",
+          **{head: "statistic" for head in ("t", "F", "r", "z", "Z", "ts", "Fs", "rs", "zs",
+                                            "χ2", "Χ2", "χ 2", "Χ 2")}}
+_LOOK_BEHIND = "(?:" + "|".join(f"(?<=\\b{re.escape(head)}{space}.)"
+                                for head in sorted(_HEADS, key=len, reverse=True)
+                                for space in ("", " ")) + ")"
+# two scans, each starting with a small set of characters (one set would be slower)
+_SLOTS = re.compile(f"(?P<sign>[,.$#])(?=[ ]?-?[.\\d]){_LOOK_BEHIND}[ ]?{_NUMBER}")
+_ODD_SLOTS = re.compile(f"(?P<sign>{_ODD}){_LOOK_BEHIND}[ ]?{_NUMBER}")
+_HEAD_BEFORE = re.compile(r"\b(df|ps?|[tFrzZ]s?|[Nn]|[χΧ][ ]?2)[ ]?$")
 #: a sign after brackets (checked: brackets of a statistic's degrees of freedom)
 _BRACKET_SLOTS = re.compile(rf"(?P<close>[)\]])[ ]?(?:{_GLYPH}|(?P<digit>5))[ ]?{_NUMBER}")
 #: what must come before a closing bracket for the sign after it to be a statistic's
 _STATISTIC_BEFORE = re.compile(r"(?:(?<![A-Za-z])[tFrzZ]|[χΧ][ ]?2|(?<![A-Za-z])[A-Za-z]2)"
                                r"[ ]?[(\[][^()\[\]\n]{1,40}$")
-# A "2" that may stand for a minus sign after a proper sign: "t(28) = 22.45" for "= -2.45".
-_MINUS_SLOTS = re.compile(r"[=<>\u2264\u2265][ ]?(?P<two>2)(?=[\d.])")
-# Any other unusual glyph before a number ("MSE ¼ 1,204.55"): not evidence of what it stands
-# for, but where it is read as what the evidence elsewhere says.
-_ODD_BEFORE_NUMBER = re.compile(
-    r"(?P<sign>[^\x00-\x7f\w\s\u2010-\u2015\u2212\u00b1\u00d7\u2264\u2265\u2248\u00b0"
-    r"\u2030\u2018\u2019\u201c\u201d\u00a0]|[\x00-\x08\x0e-\x1f\u00bc-\u00be])(?=[ ]?[-.\d])")
+# An unusual glyph before a number anywhere ("MSE ¼ 1,204.55"): once the slots have shown what
+# a glyph stands for, it is read so here too.
+_ODD_BEFORE_NUMBER = re.compile(rf"(?P<sign>{_ODD})(?=[ ]?[-.\d])")
 # A sign inside the brackets of a statistic: "(1, N ? 80)".
 _BRACKET_SIGN = re.compile(rf"[Nn][ ]?{_GLYPH}[ ]?\d")
 # A "2" after a single letter where a Greek letter must stand: chi-square before degrees of
@@ -108,17 +110,21 @@ def _ordinary(glyph: str) -> bool:
     return " " < glyph < "\x7f"
 
 
-def collect(page_number: int, lines, text_page) -> list[Place]:
+def collect(page_number: int, lines, text_page, text: str | None = None,
+            starts: list[int] | None = None, sign_numbers: list | None = None) -> list[Place]:
     """The sign and letter slots of one page (lines: `pdf_layout.Line`s; text_page:
-    `pdf_layout.TextPage`)."""
+    `pdf_layout.TextPage`; text and starts: the lines joined by line breaks and where each
+    starts in it; sign_numbers: the matches of `pdf_layout.SIGN_NUMBER` in it, where a "2"
+    after a proper sign may stand for a minus sign: "t(28) = 22.45" for "= -2.45")."""
     if not lines:
         return []
-    starts = []
-    position = 0
-    for line in lines:
-        starts.append(position)
-        position += len(line.text) + 1
-    text = "\n".join(line.text for line in lines)
+    if text is None or starts is None:
+        starts = []
+        position = 0
+        for line in lines:
+            starts.append(position)
+            position += len(line.text) + 1
+        text = "\n".join(line.text for line in lines)
     places: list[Place] = []
 
     def locate(offset: int) -> tuple[int, int]:
@@ -156,7 +162,8 @@ def collect(page_number: int, lines, text_page) -> list[Place]:
         index, within = locate(offset)
         places.append(Place(page_number, index, within, glyph, font, role, foreign, value))
 
-    matches = list(_SLOTS.finditer(text))
+    matches: list = list(_SLOTS.finditer(text))
+    matches.extend(_ODD_SLOTS.finditer(text))
     if ")" in text or "]" in text:
         matches.extend(_BRACKET_SLOTS.finditer(text))
     for match in matches:
@@ -166,12 +173,12 @@ def collect(page_number: int, lines, text_page) -> list[Place]:
             if not _STATISTIC_BEFORE.search(text, max(0, begin - 50), begin):
                 continue
             role = "equals"
-        elif match.group("df"):
-            role = "equals"
-        elif match.group("p"):
-            role = "p"
         else:
-            role = "statistic"
+            head = _HEAD_BEFORE.search(text, max(0, begin - 4), begin)
+            if head is None:
+                continue
+            role = _HEADS.get(head.group(1), "statistic")
+            role = "equals" if role == "df" else role
         sign = "digit" if closing and match.group("digit") else "sign"
         add(match.start(sign), role, match.group("number"))
         number = match.start("number")
@@ -183,10 +190,11 @@ def collect(page_number: int, lines, text_page) -> list[Place]:
             bracket = max(text.rfind("(", 0, begin), text.rfind("[", 0, begin))
             for inner in _BRACKET_SIGN.finditer(text, bracket, begin):
                 add(inner.start("sign"), "equals")
-    for match in _ODD_BEFORE_NUMBER.finditer(text):
-        add(match.start("sign"), "other")
-    for match in _MINUS_SLOTS.finditer(text):
-        add(match.start("two"), "minus")
+    for match in sign_numbers or ():
+        number = match.start("number")
+        if text[number] == "2" and match.group("sign") in _SIGNS and \
+                text[number + 1:number + 2] in ("0", "1", "2", "3", "4", "5", "6", "7", "8", "9", "."):
+            add(number, "minus")
     for match in _LETTER_SLOTS.finditer(text):
         before = _LETTER_BEFORE.search(text, max(0, match.start() - 3), match.start())
         if before is None or text[before.start()] in _NOT_GREEK:
@@ -249,13 +257,13 @@ def decide(places: list[Place]) -> dict[tuple[str, str, str], str]:
     return meaning
 
 
-_KIND = {"equals": "sign", "p": "sign", "statistic": "sign", "other": "sign",
-         "minus": "minus", "chi": "letter", "eta": "letter"}
+_KIND = {"equals": "sign", "p": "sign", "statistic": "sign", "minus": "minus",
+         "chi": "letter", "eta": "letter"}
 
 
-def apply(places: list[Place], meaning: dict[tuple[str, str, str], str],
-          layouts) -> list[str]:
-    """Print each place's glyph as what it stands for; the notes that say so."""
+def apply(places: list[Place], meaning: dict[tuple[str, str, str], str], pages) -> list[str]:
+    """Print each place's glyph as what it stands for; the notes that say so. `pages` have a
+    `text` (their lines joined by line breaks) and `replace(line, offset, character)`."""
     done: Counter = Counter()
     seen: set[tuple[int, int, int]] = set()
     for place in places:
@@ -266,11 +274,27 @@ def apply(places: list[Place], meaning: dict[tuple[str, str, str], str],
         replacement = meaning.get(key)
         if replacement is None:
             continue
-        line = layouts[place.page].lines[place.line]
-        if line.text[place.offset:place.offset + 1] != place.glyph:
+        page = pages[place.page]
+        position = page.starts[place.line] + place.offset
+        if page.text[position:position + 1] != place.glyph:
             continue
-        line.replace(place.offset, replacement)
+        page.replace(place.line, place.offset, replacement)
         done[key] += 1
+    # An unusual glyph that stands for a sign in the slots is read as that sign before any
+    # number, whatever its font (no text prints "¼" or a control character before a number).
+    odd = {glyph: sign for (_, glyph, kind), sign in meaning.items()
+           if kind == "sign" and not _ordinary(glyph)}
+    odd_fonts = {glyph: font for (font, glyph, kind) in meaning if glyph in odd}
+    if odd:
+        for page in pages:
+            if not any(glyph in page.text for glyph in odd):
+                continue
+            for found in _ODD_BEFORE_NUMBER.finditer(page.text):
+                glyph = found.group("sign")
+                if glyph in odd:
+                    line = bisect_right(page.starts, found.start()) - 1
+                    page.replace(line, found.start() - page.starts[line], odd[glyph])
+                    done[(odd_fonts[glyph], glyph, "sign")] += 1
     notes = []
     for (font, glyph, _), count in sorted(done.items()):
         shown = repr(glyph) if _ordinary(glyph) else f"U+{ord(glyph):04X}"

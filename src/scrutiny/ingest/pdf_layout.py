@@ -29,6 +29,7 @@ from __future__ import annotations
 import ctypes
 import math
 import re
+from bisect import bisect_right
 from dataclasses import dataclass, field
 
 import pypdfium2.raw as pdfium
@@ -50,8 +51,10 @@ class Line:
 
     text: str
     #: (offset in `text`, index of pdfium's character for it, length): runs of characters that
-    #: correspond one to one; characters outside every piece have no box (inserted ones)
-    pieces: list[tuple[int, int, int]]
+    #: correspond one to one; characters outside every piece have no box (inserted ones). An
+    #: int instead, for the usual line that is one such run: the index of its first character
+    #: (no list to allocate for each of the thousands of lines of a long document).
+    pieces: list[tuple[int, int, int]] | int
     x0: float = 0.0
     bottom: float = 0.0
     x1: float = 0.0
@@ -65,8 +68,18 @@ class Line:
     def height(self) -> float:
         return self.top - self.bottom
 
+    def runs(self) -> list[tuple[int, int, int]]:
+        """`pieces` as a list."""
+        pieces = self.pieces
+        if pieces.__class__ is int:
+            return [(0, pieces, len(self.text))]
+        return pieces
+
     def char_at(self, offset: int) -> int | None:
-        for start, char, length in self.pieces:
+        pieces = self.pieces
+        if pieces.__class__ is int:
+            return pieces + offset if 0 <= offset < len(self.text) else None
+        for start, char, length in pieces:
             if start <= offset < start + length:
                 return char + offset - start
         return None
@@ -75,7 +88,7 @@ class Line:
         """Remove text[start:end]."""
         removed = end - start
         pieces = []
-        for piece_start, char, length in self.pieces:
+        for piece_start, char, length in self.runs():
             piece_end = piece_start + length
             if piece_end <= start:
                 pieces.append((piece_start, char, length))
@@ -96,7 +109,8 @@ class Line:
     def extend(self, other: "Line", separator: str) -> None:
         """Append another line's text (pieces of one printed line that pdfium cut)."""
         shift = len(self.text) + len(separator)
-        self.pieces.extend((start + shift, char, length) for start, char, length in other.pieces)
+        self.pieces = self.runs() + [(start + shift, char, length)
+                                     for start, char, length in other.runs()]
         self.text = self.text + separator + other.text
         self.x0, self.x1 = min(self.x0, other.x0), max(self.x1, other.x1)
         self.bottom, self.top = min(self.bottom, other.bottom), max(self.top, other.top)
@@ -118,6 +132,9 @@ class PageLayout:
     characters: int = 0
     #: left and right edge of characters where a claim may start or end, by pdfium's index
     edges: dict[int, tuple[float, float]] = field(default_factory=dict)
+    #: the lines joined by line breaks and where each starts (None after a line changed)
+    text: str | None = None
+    starts: list[int] | None = None
 
     def count(self, kind: str, number: int = 1) -> None:
         self.repairs[kind] = self.repairs.get(kind, 0) + number
@@ -245,12 +262,12 @@ def _plain_lines(page: TextPage, text: str) -> list[Line]:
     start = 0
     for segment in text.split("\r\n"):
         length = len(segment)
-        stripped = segment.strip()
-        if stripped:
-            get_box(raw, start + segment.index(stripped[0]), rect)
+        if length and not segment.isspace():
+            first = start if segment[0] != " " else start + length - len(segment.lstrip())
+            get_box(raw, first, rect)
             x0, bottom, top = rect.left, rect.bottom, rect.top
-            append(Line(segment, [(0, start, length)], x0, bottom,
-                        x0 + 0.5 * (top - bottom) * len(stripped), top, False, False))
+            append(Line(segment, start, x0, bottom, x0 + 0.5 * (top - bottom) * length, top,
+                        False, False))
         start += length + 2
     return lines
 
@@ -276,7 +293,7 @@ def _measure(page: TextPage, line: Line) -> None:
     first_char = line.char_at(len(text) - len(text.lstrip()))
     last_char = line.char_at(len(text.rstrip()) - 1)
     if first_char is None or last_char is None:
-        chars = [c for _, c, n in line.pieces for c in (c, c + n - 1)]
+        chars = [c for _, c, n in line.runs() for c in (c, c + n - 1)]
         if not chars:
             return
         first_char, last_char = min(chars), max(chars)
@@ -341,42 +358,62 @@ def read_page(raw_page, raw_textpage, context: Context | None = None) -> PageLay
     lines = _drop_hidden(page, raw_page, lines, layout)
     lines = _split_interleaved_columns(page, lines, layout)
     _cut_line_numbers(page, lines, layout, context.line_number_anchors)
-    _close_numbers(page, lines, layout)
     layout.lines = _join_printed_lines(page, lines)
     return layout
 
 
-# Where a claim may start (a symbol at the start of a word, a delta, emphasis) or end (the last
-# digit of a number, a bracket, "ns"), in lines that print a result. Their edges are kept, so
-# that the box of a claim can be given without reading the page a second time.
-_RESULT_LINE = re.compile("[=<>\u2264\u2265]")
-_CLAIM_EDGE = re.compile(r"(?<![^\W_])[tFrzZXxχΧ𝑡𝐹𝑟𝑧𝜒](?![a-rt-z])|[Δ∆*_]|[Cc](?=hi)"
-                         r"|\d(?!\d)|[)\]]|(?<=n)s\b|(?<=s)\.")
+# Where a claim may start (a statistic's symbol at the start of a word, a delta, emphasis) and
+# where it may end (the last digit of a number after a sign). The edges of these
+# characters are kept while the page is open, so that the box of a claim can be given without
+# reading the page a second time (any other character is looked up then).
+_CLAIM_START = re.compile(r"(?<![^\W_])[tFrzZXxχΧ𝑡𝐹𝑟𝑧𝜒Δ∆*_](?![a-rt-z])|[Cc](?=hi)")
+#: a sign (or a glyph that may stand for one) and the number after it (scanned once a page)
+SIGN_NUMBER = re.compile(r"(?P<sign>[=<>\u2264\u2265,\u00bc\u2afd\u2b0d\x00-\x08])\s?-?[ ]?"
+                         r"(?P<number>[\d.,]*(\d))(?:[ ]?[×x*·][ ]?10[ ]?\^?-?[ ]?\d*(\d))?")
 
 
-def record_edges(text_page, layout: PageLayout, also: set[int] = frozenset()) -> None:
-    """Keep the edges of the characters where a claim may start or end, in lines with a
-    comparison sign (and the line after each) and in the lines `also`."""
+def page_text(lines: list[Line]) -> tuple[str, list[int]]:
+    """The lines joined by line breaks, and where each starts in that text."""
+    starts = []
+    position = 0
+    for line in lines:
+        starts.append(position)
+        position += len(line.text) + 1
+    return "\n".join(line.text for line in lines), starts
+
+
+def record_edges(text_page, layout: PageLayout, text: str | None = None,
+                 starts: list[int] | None = None, sign_numbers: list | None = None) -> None:
+    """Keep the left and right edges of the characters where a claim may start or end
+    (`text`, `starts`: `page_text`; `sign_numbers`: the matches of `SIGN_NUMBER` in it)."""
     page = text_page if isinstance(text_page, TextPage) else TextPage(text_page)
+    lines = layout.lines
+    if text is None or starts is None:
+        text, starts = page_text(lines)
+    if sign_numbers is None:
+        sign_numbers = list(SIGN_NUMBER.finditer(text))
     rect = page._rect
     raw = page.raw
     get_box = pdfium.FPDFText_GetLooseCharBox
     edges = layout.edges
-    wanted = set(also)
-    for index, line in enumerate(layout.lines):
-        if _RESULT_LINE.search(line.text):
-            wanted.add(index)
-            wanted.add(index + 1)
-    for index in sorted(wanted):
-        if index >= len(layout.lines):
-            continue
-        line = layout.lines[index]
-        measure_end(page, line)
-        for found in _CLAIM_EDGE.finditer(line.text):
-            char = line.char_at(found.start())
-            if char is not None and char not in edges:
-                get_box(raw, char, rect)
-                edges[char] = (rect.left, rect.right)
+    offsets = [found.start(4) if found.group(4) else found.start(3) for found in sign_numbers]
+    # claims start in lines that print a sign (statistics broken before their sign are
+    # looked up later)
+    result_lines = {bisect_right(starts, found.start()) - 1 for found in sign_numbers
+                    if found.group("sign") != ","}
+    # a claim may begin on the line before its sign and end on the line after it
+    for index in sorted(result_lines | {i - 1 for i in result_lines} | {i + 1 for i in result_lines}):
+        if 0 <= index < len(lines):
+            line = lines[index]
+            measure_end(page, line)
+            offsets.extend(starts[index] + found.start()
+                           for found in _CLAIM_START.finditer(line.text))
+    for offset in offsets:
+        index = bisect_right(starts, offset) - 1
+        char = lines[index].char_at(offset - starts[index])
+        if char is not None and char not in edges:
+            get_box(raw, char, rect)
+            edges[char] = (rect.left, rect.right)
 
 
 # -- turned text, text outside the page ------------------------------------------------------
@@ -439,13 +476,19 @@ def _overlaps(a: Line, b: Line) -> bool:
 
 
 def _has_overlapping_lines(lines: list[Line]) -> bool:
-    ordered = sorted(lines, key=lambda line: line.top, reverse=True)
-    for index, line in enumerate(ordered):
-        for other in ordered[index + 1:]:
-            if other.top <= line.bottom:
-                break
-            if _overlaps(line, other):
-                return True
+    buckets: dict[int, list[Line]] = {}
+    for line in lines:
+        # lines whose middles lie within a few points of each other
+        key = int((line.top + line.bottom) / 6)
+        for near in (key - 1, key, key + 1):
+            for other in buckets.get(near, ()):
+                if other.x1 > line.x0 and line.x1 > other.x0 and _overlaps(line, other):
+                    return True
+        bucket = buckets.get(key)
+        if bucket is None:
+            buckets[key] = [line]
+        else:
+            bucket.append(line)
     return False
 
 
@@ -683,7 +726,7 @@ def _split_interleaved_columns(page: TextPage, lines: list[Line],
             gap = _gap_near(page, line, gutter)
             if (gap is not None and abs(gap[1] - gutter_right) <= 2.0
                     and gap[1] - gap[0] > max(line.height, 6.0)):
-                right_part = Line(line.text, list(line.pieces))
+                right_part = Line(line.text, list(line.runs()))
                 right_part.cut(0, gap[2])
                 line.cut(gap[2], len(line.text))
                 for part in (line, right_part):
@@ -716,8 +759,10 @@ def _cut_line_numbers(page: TextPage, lines: list[Line], layout: PageLayout,
     candidates: list[tuple[str, Line, int, int, float, int]] = []
     for line in lines:
         text = line.text
-        if not (text[-1:].isdigit() or text[:1].isdigit() or text[1:2].isdigit()
-                or text.rstrip()[-1:].isdigit()):
+        last = text[-1]
+        if not (last.isdigit() or text[0].isdigit() or
+                ((text[0] == " " or last == " ") and (text.strip()[:1].isdigit()
+                                                      or text.strip()[-1:].isdigit()))):
             continue
         found = _ONLY_NUMBER.match(line.text)
         if found:
@@ -808,28 +853,32 @@ def _numbered_like_lines(ordered: list) -> bool:
 
 # -- numbers with a stray space -------------------------------------------------------------
 
-_SPACE_IN_NUMBER = re.compile(r"(?<=\d[.,]) (?=\d)|(?<=\d) (?=[.,]\d)")
+_SPACE_IN_NUMBER = re.compile(r"\d(?:[.,]( )\d|( )[.,]\d)")
 
 
-def _close_numbers(page: TextPage, lines: list[Line], layout: PageLayout) -> None:
+def close_numbers(text_page, layout: PageLayout, text: str, starts: list[int]) -> bool:
     """Take out a space that pdfium put into a number ("312. 48", "1, 204.37") because its
     characters were set a little apart: a space pdfium made up (there is no space character),
-    narrower than a quarter of the font size, which no word space is."""
-    for line in lines:
-        text = line.text
-        if "," not in text and "." not in text:
+    narrower than a quarter of the font size, which no word space is. `text` and `starts` are
+    the page's lines joined (`page_text`); True if a line changed."""
+    page = text_page if isinstance(text_page, TextPage) else TextPage(text_page)
+    changed = False
+    for found in reversed(list(_SPACE_IN_NUMBER.finditer(text))):
+        offset = found.start(1) if found.group(1) is not None else found.start(2)
+        index = bisect_right(starts, offset) - 1
+        line = layout.lines[index]
+        offset -= starts[index]
+        space = line.char_at(offset)
+        before, after = line.char_at(offset - 1), line.char_at(offset + 1)
+        if space is None or before is None or after is None or \
+                not pdfium.FPDFText_IsGenerated(page.raw, space):
             continue
-        for found in reversed(list(_SPACE_IN_NUMBER.finditer(text))):
-            offset = found.start()
-            space = line.char_at(offset)
-            before, after = line.char_at(offset - 1), line.char_at(offset + 1)
-            if space is None or before is None or after is None or \
-                    not pdfium.FPDFText_IsGenerated(page.raw, space):
-                continue
-            size = pdfium.FPDFText_GetFontSize(page.raw, after)
-            if page.box(after)[0] - page.box(before)[2] < 0.25 * size:
-                line.cut(offset, offset + 1)
-                layout.count("spaces in numbers")
+        size = pdfium.FPDFText_GetFontSize(page.raw, after)
+        if page.box(after)[0] - page.box(before)[2] < 0.25 * size:
+            line.cut(offset, offset + 1)
+            layout.count("spaces in numbers")
+            changed = True
+    return changed
 
 
 # -- pieces of one printed line --------------------------------------------------------------
@@ -838,13 +887,14 @@ def _join_printed_lines(page: TextPage, lines: list[Line]) -> list[Line]:
     """Join lines that continue one printed line (pdfium starts a new line where a
     superscript or subscript moves the baseline)."""
     joined: list[Line] = []
+    append = joined.append
     for line in lines:
         if joined:
             previous = joined[-1]
-            overlap = min(previous.top, line.top) - max(previous.bottom, line.bottom)
-            if overlap <= 0:
-                joined.append(line)
+            if previous.bottom >= line.top or line.bottom >= previous.top:
+                append(line)  # one above the other: the usual next line
                 continue
+            overlap = min(previous.top, line.top) - max(previous.bottom, line.bottom)
             measure_end(page, previous)
             gap = line.x0 - previous.x1
             size = max(previous.height, line.height, 1.0)
@@ -854,5 +904,5 @@ def _join_printed_lines(page: TextPage, lines: list[Line]) -> list[Line]:
                                    or previous.text[-1:].isspace()) else " "
                 previous.extend(line, separator)
                 continue
-        joined.append(line)
+        append(line)
     return joined
