@@ -8,7 +8,10 @@ Three measures, each with the prior it assumes:
 * The default "JZS" Bayes factor for t tests (Rouder, Speckman, Sun, Morey & Iverson 2009,
   Psychonomic Bulletin & Review 16, 225-237): a Cauchy prior with scale r on the standardised
   effect delta under H1 (r = sqrt(2)/2 by default), computed by numerical integration over the
-  mixing variance g of eq. 1 of that paper.
+  mixing variance g of eq. 1 of that paper. A correlation r(df) enters through its t with
+  N = df + 2 observations and df degrees of freedom: this is exactly the default Bayes factor
+  for a correlation of Wetzels & Wagenmakers (2012, Psychonomic Bulletin & Review 19,
+  1057-1064), the Zellner-Siow regression Bayes factor with one predictor.
 * The unit-information (BIC) approximation (Kass & Raftery 1995; Wagenmakers 2007, Psychonomic
   Bulletin & Review 14, 779-804) for z and chi-square results with N: BF01 ~ N^(k/2) exp(-X2/2)
   for a chi-square statistic on k df (z: X2 = z^2, k = 1).
@@ -24,6 +27,7 @@ import math
 import numpy
 
 from ..model import Evidence
+from ..numbers import format_count
 
 #: grid in u = ln g for the JZS integral; the integrand is smooth in u and negligible outside
 #: [-14, 50] (the inverse-gamma prior on g vanishes double-exponentially below, and the
@@ -122,23 +126,28 @@ def evidence_for(test: str, statistic: float, df: tuple[float, ...], n: float | 
         t = statistic * math.sqrt(nu / (1.0 - statistic**2)) if abs(statistic) < 1 else math.inf
         if math.isinf(t):
             return Evidence(**base, reason="|r| = 1: no Bayes factor")
-        bf01 = 1.0 / jzs_bf10(t, nu, nu, prior_scale)
+        # N = df + 2 observations (not df): with it eq. 1 of Rouder et al. becomes the
+        # correlation Bayes factor of Wetzels & Wagenmakers (2012)
+        bf01 = 1.0 / jzs_bf10(t, nu + 2.0, nu, prior_scale)
         return Evidence(**base, bf01=bf01, method="jzs", prior_scale=prior_scale,
                         posterior_null=posterior_null(bf01, prior_null),
-                        assumption=f"the t of r, t = r sqrt(df / (1 - r^2)), with N = df = "
-                                   f"{nu:g}")
+                        assumption=f"the t of r, t = r sqrt(df / (1 - r^2)), with N = df + 2 = "
+                                   f"{format_count(nu + 2.0)}")
     if test == "F":
         bf01 = bic_bf01_f(statistic, df[0], df[1])
         return Evidence(**base, bf01=bf01, method="bic",
                         posterior_null=posterior_null(bf01, prior_null),
                         assumption=f"unit-information prior, N = df1 + df2 + 1 = "
-                                   f"{df[0] + df[1] + 1:g}")
+                                   f"{format_count(df[0] + df[1] + 1)}")
     if test in ("z", "chi2"):
         if not n:
             return Evidence(**base, reason=f"no N printed for the {test} result")
+        if n <= 1:
+            return Evidence(**base,
+                            reason=f"N = {format_count(n)}: the BIC approximation needs N > 1")
         chi_square, k = (statistic**2, 1.0) if test == "z" else (statistic, df[0])
         bf01 = bic_bf01(chi_square, k, n)
         return Evidence(**base, bf01=bf01, method="bic",
                         posterior_null=posterior_null(bf01, prior_null),
-                        assumption=f"unit-information prior, N = {n:g}")
+                        assumption=f"unit-information prior, N = {format_count(n)}")
     raise ValueError(test)
