@@ -286,3 +286,89 @@ def test_bound_results_are_checked_as_bounds():
     assert result.status is Status.CONSISTENT
     assert result.claim.aggregate
     assert result.recomputed.p is None and result.recomputed.p_interval.high < 0.002
+
+
+# -- evidence-favours-null -------------------------------------------------------------------
+# BF01 values: JZS from pingouin.bayesfactor_ttest with r = sqrt(2)/2 (its default 0.707 gives
+# the same to 3 digits); BIC from sqrt(N) exp(-z^2/2) evaluated in mpmath (Wagenmakers 2007).
+# p-values from mpmath. tests/test_bayes.py checks both Bayes factors against their references.
+
+@pytest.mark.parametrize("text, bf01, n", [
+    # p = .0358; two groups of 5,000 assumed: JZS BF01 = 4.91 (pingouin)
+    ("The colonies differed, t(9998) = 2.10, p = .036.", "4.91", "10,000"),
+    # p = .0357; BIC BF01 = sqrt(50000) exp(-2.205) = 24.65 (mpmath)
+    ("The Wald test gave z = 2.10, N = 50000, p = .036.", "24.65", "50,000"),
+    # Lindley's births (reference LIN-01): p = .0232; BIC BF01 = 23.86 (mpmath)
+    ("Sex ratio differed from parity, z = 2.27, N = 98,451, p = .023.", "23.86", "98,451"),
+    # p = .0093 and yet JZS BF01 = 2.14 for 10,000 + 10,000 (pingouin)
+    ("Larger colonies foraged longer, t(19998) = 2.60, p = .009.", "2.14", "20,000"),
+])
+def test_evidence_favours_null_raised(text, bf01, n):
+    result = only_result(text)
+    flag = next(f for f in result.flags if f.check == "evidence-favours-null")
+    assert flag.severity is Severity.WARNING
+    assert f"BF01 = {bf01}" in flag.message and f"with n = {n}" in flag.message
+    assert "times as likely under no effect" in flag.message
+    assert "posterior probability" in flag.message
+    assert f"{flag.details['bf01']:.2f}" == bf01 and flag.details["bf01"] > 1
+    assert result.status is Status.CONSISTENT     # a prompt to look, not an inconsistency
+
+
+@pytest.mark.parametrize("text", [
+    # p = .0208 with JZS BF01 = 0.34 for 15 + 15 (pingouin): the data favour the alternative
+    "The voles dug deeper, t(28) = 2.45, p = .021.",
+    # not significant (p = .230), although BF01 = 21.6 (pingouin): nothing claimed to explain
+    "Larger colonies foraged longer, t(9998) = 1.20, p = .23.",
+    # significant but no N: no Bayes factor (only the Sellke-Bayarri-Berger bound)
+    "The Wald test gave z = 2.10, p = .036.",
+    # a significant correlation that the Bayes factor supports too: BF01 = 0.62 at prior scale
+    # 1 (pingouin.bayesfactor_pearson, method "wetzels"), 0.44 at the default sqrt(2)/2
+    "Mass and depth correlated, r(12000) = .03, p = .001.",
+])
+def test_evidence_favours_null_not_raised(text):
+    assert "evidence-favours-null" not in flags_for(text)
+
+
+def test_evidence_favours_null_depends_on_the_prior_scale():
+    # t(1998) = 2.20, p = .0279: JZS BF01 = 1.81 at r = sqrt(2)/2 (pingouin), 0.63 at r = 0.2
+    text = "The colonies differed, t(1998) = 2.20, p = .028."
+    assert "evidence-favours-null" in flags_for(text)
+    assert "evidence-favours-null" not in flags_for(text, prior_scale=0.2)
+
+
+# -- negligible-effect: equivalent to zero, or too wide to tell ------------------------------
+# 90% limits: noncentral t roots (Steiger & Fouladi 1997) and Fisher's z, computed with mpmath;
+# the smallest effects of interest are Cohen's (1988) "small" (reference ES-C-01/02, ES-C-06).
+
+@pytest.mark.parametrize("text, interval, threshold", [
+    # d = 0.037, 90% interval [0.0135, 0.0600] (mpmath) inside +-0.2
+    ("Larger colonies foraged longer, t(19998) = 2.60, p = .009.", "[0.014, 0.060]", "0.2"),
+    # r = .03, Fisher-z 90% interval [0.0184, 0.0416] (mpmath) inside +-0.1
+    ("Mass and depth correlated, r(19998) = .03, p < .001.", "[0.018, 0.042]", "0.1"),
+    # partial eta squared .0009, 90% interval [0.00018, 0.00215] (mpmath) inside +-0.01
+    ("Season affected depth, F(1, 9998) = 9.00, p = .003.", "[0.000, 0.002]", "0.01"),
+])
+def test_negligible_effect_practically_equivalent_to_zero(text, interval, threshold):
+    flag = next(f for f in only_result(text).flags if f.check == "negligible-effect")
+    assert flag.details["equivalent_to_zero"] == "yes"
+    assert -float(threshold) < flag.details["low90"] <= flag.details["high90"] < float(threshold)
+    assert (f"the whole 90% interval {interval} lies within ±{threshold}, so the result is "
+            f"practically equivalent to zero (two one-sided tests)") in flag.message
+    assert "too wide" not in flag.message
+
+
+@pytest.mark.parametrize("text, interval, threshold", [
+    # d = 0.158 < 0.2, but the 90% interval [0.0539, 0.2623] (mpmath) reaches past 0.2
+    ("Larger colonies foraged longer, t(998) = 2.50, p = .013.", "[0.054, 0.262]", "0.2"),
+    # r = .08 < .1, Fisher-z 90% interval [0.0281, 0.1315] (mpmath)
+    ("Mass and depth correlated, r(998) = .08, p = .011.", "[0.028, 0.131]", "0.1"),
+    # partial eta squared .0060 < .01, 90% interval [0.00063, 0.01647] (mpmath)
+    ("Season affected depth, F(1, 1000) = 6.00, p = .014.", "[0.001, 0.016]", "0.01"),
+])
+def test_negligible_effect_too_wide_to_rule_out(text, interval, threshold):
+    flag = next(f for f in only_result(text).flags if f.check == "negligible-effect")
+    assert flag.details["equivalent_to_zero"] == "no"
+    assert abs(flag.details["effect"]) < float(threshold) < flag.details["high90"]
+    assert (f"90% interval {interval} is too wide to rule out an effect of ±{threshold}"
+            in flag.message)
+    assert "practically equivalent" not in flag.message
