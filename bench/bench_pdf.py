@@ -25,9 +25,7 @@ figures go in the README.
 from __future__ import annotations
 
 import argparse
-import os
 import random
-import resource
 import subprocess
 import sys
 import tempfile
@@ -134,15 +132,18 @@ def make_pdf(pages: int, folder: Path) -> tuple[Path, int]:
     return path, manuscript.pages
 
 
-def best_of(repeats: int, function) -> tuple[float, float]:
-    """Best wall-clock and best CPU time (of this process) of `repeats` calls."""
-    wall = cpu = float("inf")
+def best_of(repeats: int, functions: dict) -> dict[str, tuple[float, float]]:
+    """Best wall-clock and best CPU time (of this process) of each function over `repeats`
+    rounds; each round calls every function once, so that a machine that speeds up or slows
+    down in between (other work on it) does not favour one of them."""
+    best = {name: (float("inf"), float("inf")) for name in functions}
     for _ in range(repeats):
-        start_wall, start_cpu = time.perf_counter(), time.process_time()
-        function()
-        wall = min(wall, time.perf_counter() - start_wall)
-        cpu = min(cpu, time.process_time() - start_cpu)
-    return wall, cpu
+        for name, function in functions.items():
+            start_wall, start_cpu = time.perf_counter(), time.process_time()
+            function()
+            wall, cpu = time.perf_counter() - start_wall, time.process_time() - start_cpu
+            best[name] = (min(best[name][0], wall), min(best[name][1], cpu))
+    return best
 
 
 def bare_pdfium(path: Path) -> None:
@@ -168,22 +169,36 @@ def plumber(path: Path, pages: int) -> None:
 
 
 MEMORY_PROBE = """
-import resource, sys, tracemalloc
-from scrutiny import check_file
+import sys, tracemalloc
 from scrutiny.api import _check_unguarded
 from scrutiny.patterns import load_library
 load_library()
 import pypdfium2
-baseline = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss
+
+def status(field):
+    with open("/proc/self/status") as lines:
+        for line in lines:
+            if line.startswith(field + ":"):
+                return int(line.split()[1])
+    return 0
+
+# the peak resident memory so far, then reset it (Linux), so that only the check counts
+before = status("VmRSS")
+try:
+    with open("/proc/self/clear_refs", "w") as clear:
+        clear.write("5")
+except OSError:
+    pass
 tracemalloc.start()
 result = _check_unguarded(sys.argv[1], None)
 current, peak = tracemalloc.get_traced_memory()
-print(len(result.claims), resource.getrusage(resource.RUSAGE_SELF).ru_maxrss - baseline, peak)
+print(len(result.claims), status("VmHWM") - before, peak)
 """
 
 
 def memory(path: Path) -> tuple[int, float, float]:
-    """Claims, peak resident memory added by the check (MB) and peak Python heap (MB)."""
+    """Claims, peak resident memory the check added (MB: C libraries included, Linux only) and
+    peak Python heap (MB) of a fresh process that checks the PDF."""
     output = subprocess.run([sys.executable, "-c", MEMORY_PROBE, str(path)], check=True,
                             capture_output=True, text=True).stdout.split()
     claims, resident_kb, heap = int(output[0]), int(output[1]), int(output[2])
@@ -210,22 +225,24 @@ def main() -> None:
               f"notes: {'; '.join(document.notes) or 'none'}")
         del document
 
-        rows = []
-        wall, cpu = best_of(args.repeats, lambda: bare_pdfium(path))
-        rows.append(("pypdfium2 text, bare", pages, wall, cpu))
-        bare_wall, bare_cpu = wall, cpu
         plumber_pages = min(args.plumber_pages, pages)
-        wall, cpu = best_of(1, lambda: plumber(path, plumber_pages))
-        rows.append(("pdfplumber extract_text()", plumber_pages, wall, cpu))
-        wall, cpu = best_of(args.repeats, lambda: read_document(path))
-        rows.append(("scrutiny: read the PDF only", pages, wall, cpu))
-        wall, cpu = best_of(args.repeats,
-                            lambda: check_document(read_document(path)))
-        rows.append(("scrutiny: whole check, in process", pages, wall, cpu))
-        check_wall, check_cpu = wall, cpu
-        wall, _ = best_of(args.repeats, lambda: check_file(path))
-        rows.append(("scrutiny check_file (guarded child)", pages, wall, None))
-
+        best = best_of(args.repeats, {
+            "bare": lambda: bare_pdfium(path),
+            "read": lambda: read_document(path),
+            "check": lambda: check_document(read_document(path)),
+            "child": lambda: check_file(path),
+        })
+        plumber_wall, plumber_cpu = best_of(1, {"plumber": lambda: plumber(path, plumber_pages)})[
+            "plumber"]
+        rows = [
+            ("pypdfium2 text, bare", pages, *best["bare"]),
+            ("pdfplumber extract_text()", plumber_pages, plumber_wall, plumber_cpu),
+            ("scrutiny: read the PDF only", pages, *best["read"]),
+            ("scrutiny: whole check, in process", pages, *best["check"]),
+            ("scrutiny check_file (guarded child)", pages, best["child"][0], None),
+        ]
+        bare_wall, bare_cpu = best["bare"]
+        check_wall, check_cpu = best["check"]
         print(f"\n{'step':38} {'pages':>5} {'wall s':>8} {'pages/s':>8} {'cpu s':>8} "
               f"{'pages/s':>8}")
         for name, count, wall, cpu in rows:
@@ -238,7 +255,7 @@ def main() -> None:
         for probe, count in ((small, small_pages), (path, pages)):
             claims, resident, heap = memory(probe)
             print(f"  {count:4d} pages: {claims:5d} results, resident +{resident:6.1f} MB, "
-                  f"Python heap peak {heap:6.1f} MB")
+                  f"Python heap peak {heap:6.1f} MB ({heap * 1024 / count:.0f} kB a page)")
 
 
 if __name__ == "__main__":

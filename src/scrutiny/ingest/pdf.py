@@ -243,7 +243,7 @@ class _Page:
     Unicode mapping) may have to be cut once the fonts are understood."""
 
     __slots__ = ("text", "starts", "chars", "pieces", "boxes", "exact", "edges", "crop",
-                 "rotation", "repairs", "characters", "lines")
+                 "rotation", "repairs", "characters", "lines", "_gaps")
 
     def __init__(self, layout: PageLayout | None, text: str = "",
                  starts: list[int] | None = None) -> None:
@@ -260,6 +260,7 @@ class _Page:
         self.repairs: dict[str, int] = {}
         self.characters = 0
         self.lines: list[Line] | None = None
+        self._gaps: list[float] | None = None
         if layout is not None:
             self._take(layout)
 
@@ -290,10 +291,13 @@ class _Page:
 
     def _line_gaps(self) -> list[float]:
         """The spaces between vertically neighbouring lines (bottom to top of the next)."""
+        if self._gaps is not None:
+            return self._gaps
         tops, bottoms = self.boxes[3], self.boxes[1]
         order = sorted(range(len(tops)), key=tops.__getitem__)
-        return sorted(gap for below, above in zip(order, order[1:])
-                      if (gap := bottoms[above] - tops[below]) > 0.5)
+        self._gaps = sorted(gap for below, above in zip(order, order[1:])
+                            if (gap := bottoms[above] - tops[below]) > 0.5)
+        return self._gaps
 
     def head_candidates(self, usual_gap: float) -> list[tuple[int, str]]:
         """Lines that may be running heads or feet, with their signatures.

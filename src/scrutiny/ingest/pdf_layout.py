@@ -426,7 +426,9 @@ def _drop_turned(page: TextPage, lines: list[Line], layout: PageLayout) -> list[
     turned characters, the upright ones are kept."""
     if not lines:
         return lines
-    heights = sorted(line.top - line.bottom for line in lines)
+    # the median height of a sample of the lines: what an ordinary line is like
+    step = max(1, len(lines) // 9)
+    heights = sorted(line.top - line.bottom for line in lines[::step])
     ordinary = heights[len(heights) // 2]
     suspects = {0, len(lines) - 1}
     for index, line in enumerate(lines):
