@@ -28,7 +28,6 @@ from scrutiny.model import Claim, Location, PValue, Settings
 from scrutiny.recompute import recompute
 from scrutiny.recompute.bayes import (
     bic_bf01,
-    bic_bf01_f,
     jzs_bf10,
     minimum_bf01,
     posterior_null,
@@ -321,14 +320,6 @@ def mp_bic_bf01(chi_square: float, df: float, n: float) -> float:
     return float(mpmath.mpf(n) ** (mpmath.mpf(df) / 2) * mpmath.exp(-mpmath.mpf(chi_square) / 2))
 
 
-def mp_bic_bf01_f(f: float, df1: float, df2: float) -> float:
-    """BIC-01 with SSE1/SSE0 = 1/(1 + F df1/df2), k1 - k0 = df1 and N = df1 + df2 + 1."""
-    mpmath.mp.dps = 30
-    f, df1, df2 = mpmath.mpf(f), mpmath.mpf(df1), mpmath.mpf(df2)
-    n = df1 + df2 + 1
-    return float(n ** (df1 / 2) * (1 + f * df1 / df2) ** (-n / 2))
-
-
 def mp_bic_bf01_t(t: float, n: float, df: float) -> mpmath.mpf:
     """BIC-02: BF01 = sqrt(n) (1 + t^2/df)^(-n/2)."""
     mpmath.mp.dps = 30
@@ -346,25 +337,6 @@ def test_bic_rows_follow_the_one_sample_convention(row):
     assert rounds_to(float(one_sample / (1 + one_sample)), row["posterior_null"],
                      row["posterior_decimals"])
     assert not rounds_to(float(mp_bic_bf01_t(t, n, n - 2)), row["value"], row["decimals"])
-
-
-@pytest.mark.parametrize("row", BIC_T, ids=[f"{r['id']} {_source(r)}" for r in BIC_T])
-def test_bic_bf01_f_against_published_bic_values(row):
-    """scrutiny uses BIC for F, not for t, and counts N = df1 + df2 + 1 observations. For
-    F = t^2 on (1, n - 1) that is N = n + 1, so bic_bf01_f = BIC-02(n) sqrt((n + 1)/n)
-    (1 + t^2/(n - 1))^(-1/2) exactly; undoing those two factors must give the published value."""
-    t, n = float(row["t"]), float(row["n1"])
-    ours = bic_bf01_f(t * t, 1.0, n - 1.0)
-    undone = ours / math.sqrt((n + 1.0) / n) * math.sqrt(1.0 + t * t / (n - 1.0))
-    assert rounds_to(undone, row["value"], row["decimals"])
-
-
-@pytest.mark.parametrize("f, df1, df2", [
-    (4.12, 2, 87), (3.87, 2, 114), (7.121, 4, 34), (2.5, 3, 996), (1.1, 6, 200000),
-    (0.0, 2, 30), (60.0, 5, 40), (7.12, 1, 15204),
-])
-def test_bic_bf01_f_equals_mpmath(f, df1, df2):
-    assert bic_bf01_f(f, df1, df2) == pytest.approx(mp_bic_bf01_f(f, df1, df2), rel=1e-12)
 
 
 @pytest.mark.parametrize("chi_square, df, n", [

@@ -352,8 +352,9 @@ def test_negligible_effect_practically_equivalent_to_zero(text, interval, thresh
     flag = next(f for f in only_result(text).flags if f.check == "negligible-effect")
     assert flag.details["equivalent_to_zero"] == "yes"
     assert -float(threshold) < flag.details["low90"] <= flag.details["high90"] < float(threshold)
-    assert (f"the whole 90% interval {interval} lies within ±{threshold}, so the result is "
+    assert (f"Its whole 90% interval {interval} lies within ±{threshold}: the result is "
             f"practically equivalent to zero (two one-sided tests)") in flag.message
+    assert "significant only because n = " in flag.message
     assert "too wide" not in flag.message
 
 
@@ -372,3 +373,4 @@ def test_negligible_effect_too_wide_to_rule_out(text, interval, threshold):
     assert (f"90% interval {interval} is too wide to rule out an effect of ±{threshold}"
             in flag.message)
     assert "practically equivalent" not in flag.message
+    assert "only because" not in flag.message

@@ -57,20 +57,23 @@ def negligible_effect(claim: Claim, recomputed: Recomputed, context: Context,
     label = LABELS[effect.measure]
     size = f"n = {format_count(effect.n)}" if effect.n else "its sample size"
     interval = _interval_text(effect.low90, effect.high90)
-    if _equivalent_to_zero(effect, threshold):
-        verdict = (f"the whole 90% interval {interval} lies within ±{threshold:g}, so the "
-                   f"result is practically equivalent to zero (two one-sided tests)")
+    equivalent = _equivalent_to_zero(effect, threshold)
+    if equivalent:
+        verdict = (f"Its whole 90% interval {interval} lies within ±{threshold:g}: the result "
+                   f"is practically equivalent to zero (two one-sided tests). It is significant "
+                   f"only because {size} is large: with enough data any non-zero difference "
+                   f"gets a small p.")
     else:
-        verdict = (f"but its 90% interval {interval} is too wide to rule out an effect of "
-                   f"±{threshold:g}")
+        verdict = (f"Its 90% interval {interval} is too wide to rule out an effect of "
+                   f"±{threshold:g}, so the size of the effect is not known well enough to call "
+                   f"it negligible or relevant.")
     yield Finding(
         f"{describe_statistic(claim)} is significant (p = {format_p(recomputed.p)}), but the "
         f"implied effect {label} = {effect.value:.3f} is below the smallest effect of "
-        f"interest {label} = {threshold:g}; {verdict} ({effect.assumption}). It is significant "
-        f"because {size} is large: with enough data any non-zero difference gets a small p.",
+        f"interest, {label} = {threshold:g} ({effect.assumption}). {verdict}",
         {"effect": effect.value, "low90": effect.low90, "high90": effect.high90,
          "threshold": threshold, "n": effect.n,
-         "equivalent_to_zero": "yes" if _equivalent_to_zero(effect, threshold) else "no"},
+         "equivalent_to_zero": "yes" if equivalent else "no"},
     )
 
 
@@ -85,15 +88,20 @@ def evidence_favours_null(claim: Claim, recomputed: Recomputed, context: Context
     reasonable alternative - Lindley's (1957, Biometrika 44, 187-192) paradox. The Bayes
     factor is the default JZS Bayes factor for t results (Rouder et al. 2009, Psychonomic
     Bulletin & Review 16, 225-237; Cauchy prior scale set with --prior-scale, default
-    sqrt(2)/2; F(1, df) and r through their t) and the unit-information (BIC) approximation
-    for F with several df, z and chi-square with N (Kass & Raftery 1995; Wagenmakers 2007).
-    The message gives n, p, BF01 and the posterior probability of the null with the prior
-    probability set by --prior-null (default 1/2). Other priors give other numbers; the flag
-    says that the significance should not be read as strong evidence.
+    sqrt(2)/2; F(1, df) and r through their t; Wetzels & Wagenmakers 2012 for r) and the
+    unit-information (BIC) approximation for z and chi-square with N (Kass & Raftery 1995;
+    Wagenmakers 2007). The BIC approximation is used here only for one-df tests: with several
+    df its prior, one observation's worth of information per parameter, favours the null so
+    strongly that the flag would mislead. The message gives n, p, BF01 and the posterior
+    probability of the null with the prior probability set by --prior-null (default 1/2).
+    Other priors give other numbers; the flag says that the significance should not be read
+    as strong evidence.
     """
     evidence = recomputed.evidence
     if (evidence is None or evidence.bf01 is None or recomputed.p is None
             or recomputed.p >= settings.alpha or evidence.bf01 <= 1.0):
+        return
+    if evidence.method == "bic" and claim.test == "chi2" and recomputed.df[0] > 1:
         return
     n = recomputed.effect.n if recomputed.effect is not None else recomputed.n
     size = f"with n = {format_count(n)}, " if n else ""

@@ -88,7 +88,11 @@ def recompute(claim: Claim, settings: Settings) -> Recomputed:
         if claim.test == "r" and abs(statistic.value) >= 1.0:
             evidence = _evidence_unavailable(point, settings, "|r| = 1: no Bayes factor")
         else:
-            design = t_design(df[0], claim.design_stated) if claim.test == "t" else None
+            design = None
+            if claim.test == "t":
+                design = t_design(df[0], claim.design_stated)
+            elif claim.test == "F" and df[0] == 1:  # the square of a t on df2
+                design = t_design(df[1], claim.design_stated)
             evidence = evidence_for(claim.test, statistic.value, df, n, point, design,
                                     prior_scale=settings.prior_scale,
                                     prior_null=settings.prior_null)

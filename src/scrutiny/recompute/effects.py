@@ -228,7 +228,7 @@ def implied_effect(test: str, statistic: float, df: tuple[float, ...], n: float 
     elif test == "chi2" and n:
         measure, value, size = "w", math.sqrt(max(statistic, 0.0) / n), n
         assumption = f"Cohen's w = sqrt(chi2 / N), N = {format_count(n)}"
-    elif test == "z" and n:
+    elif test == "z" and n and abs(statistic) < math.sqrt(n):  # else r = z/sqrt(N) is no r
         measure, value, size = "r", statistic / math.sqrt(n), n
         assumption = f"r = z / sqrt(N), N = {format_count(n)}"
     else:
