@@ -178,8 +178,8 @@ class Layout:
     gutter: float = 24.0
     #: text of a running head printed at the top of every page with the page number
     running_head: str | None = None
-    #: a page number printed at the foot of every page
-    page_numbers: bool = False
+    #: a page number printed on every page: at the foot ("foot", or True) or top right ("top")
+    page_numbers: bool | str = False
     #: line numbers in the left margin, counted through the whole manuscript
     line_numbers: bool = False
     #: a light diagonal text printed over every page
@@ -199,6 +199,8 @@ class Layout:
     title_space: int = 0
     #: encrypt the PDF with this user password
     password: str | None = None
+    #: the pages' /Rotate (degrees clockwise: a page to be shown turned)
+    rotate: int = 0
 
 
 @dataclass
@@ -422,8 +424,10 @@ def manuscript_pdf(paragraphs: list[str], layout: Layout | None = None) -> Manus
         if layout.password is not None:
             from reportlab.lib.pdfencrypt import StandardEncryption
             encrypt = StandardEncryption(layout.password, ownerPassword=layout.password + "!")
-        pdf = canvas.Canvas(buffer, pagesize=(layout.page_width, layout.page_height),
-                            invariant=True, encrypt=encrypt)
+        page_size = (layout.page_width, layout.page_height)
+        if layout.rotate % 180:
+            page_size = page_size[::-1]  # reportlab swaps the media box of a turned page
+        pdf = canvas.Canvas(buffer, pagesize=page_size, invariant=True, encrypt=encrypt)
         for page in range(1, pages + 1):
             on_page = [line for line in lines if line.page == page]
             if layout.hidden_copy == "clipped":
@@ -451,9 +455,15 @@ def manuscript_pdf(paragraphs: list[str], layout: Layout | None = None) -> Manus
                 if layout.line_numbers:
                     pdf.setFont("FactoryBody", 7)
                     pdf.drawRightString(layout.margin - 14, line.baseline, str(line.number))
-            if layout.page_numbers:
+            if layout.page_numbers == "top":
+                pdf.setFont("FactoryBody", 9)
+                pdf.drawRightString(layout.page_width - layout.margin,
+                                    layout.page_height - 40, str(page))
+            elif layout.page_numbers:
                 pdf.setFont("FactoryBody", 9)
                 pdf.drawCentredString(layout.page_width / 2, 40, str(page))
+            if layout.rotate:
+                pdf.setPageRotation(layout.rotate)
             if layout.watermark:
                 pdf.saveState()
                 pdf.setFillGray(0.85)

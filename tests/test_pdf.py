@@ -435,3 +435,74 @@ def test_the_command_line_reports_bad_pdfs_and_checks_the_rest(tmp_path, one_col
     assert "no text layer: scanned PDF, OCR not attempted" in completed.stdout + completed.stderr
     assert '"page": 1' in completed.stdout
     assert '"boxes"' in completed.stdout or '"box' in completed.stdout or '"t"' in completed.stdout
+
+
+# -- what the field PDFs do, in invented manuscripts -----------------------------------------
+
+@needs_fonts
+@pytest.mark.parametrize("signs", [
+    {"=": "\u2afd", "<": "\u2b0d"},      # "⫽" and "⬍"
+    {"=": "5", "<": ",", "−": "2"},      # digits and punctuation of a math font
+    {"≥": "$", "≤": "#", "=": "\u00bc"},
+])
+def test_each_sign_mapping_of_publisher_fonts(signs):
+    paragraphs = [
+        PROSE,
+        "Skinks basked longer on granite, F(1,22) {sym:=} 41.30, p {sym:<} .001, and crabs "
+        "left sooner, t(40) {sym:=} {sym:−}2.45, p {sym:=} .019.",
+        "Pipers sang in bouts of at least four, ts(31) {sym:≥} 2.91, ps {sym:≤} .007, and the "
+        "waders roosted by the tide, χ^{2}(1, N {sym:=} 96) {sym:=} 5.10, p {sym:=} .024.",
+    ]
+    manuscript = manuscript_pdf(paragraphs, Layout(columns=1, symbol_map=signs))
+    document, claims = read(manuscript)
+    assert [summary(claim) for claim in claims] == text_claims(paragraphs)
+    assert len(claims) == 4
+
+
+@needs_fonts
+def test_a_double_spaced_thesis_with_page_numbers_at_the_top():
+    # correlations without df, "p = < .001", page numbers at the top right of every page
+    paragraphs = [PROSE * 14,
+                  "Working memory and reasoning were related, r = .50, 95% CI [.24, .70], p = < "
+                  ".001, but typing speed was not, r = .19, 95% CI [-.11, .47], p = .21.",
+                  PROSE * 14,
+                  "The regression on letter recall was significant, F(2, 40) = 7.99, p = .001."]
+    manuscript = manuscript_pdf(paragraphs, Layout(columns=1, leading=24, page_numbers="top"))
+    document, claims = read(manuscript)
+    assert manuscript.pages >= 3
+    assert [summary(claim) for claim in claims] == text_claims(paragraphs)
+    assert [claim.test for claim in claims] == ["r", "r", "F"]
+    assert not any(line.strip().isdigit() for line in document.text.split("\n"))
+    for claim in claims:
+        assert (claim.location.page, claim.location.line) == line_on_page(manuscript, claim)
+
+
+@needs_fonts
+def test_decimal_df_bounds_and_results_of_tests_not_recomputed():
+    paragraphs = [
+        PROSE,
+        "Amplitudes differed between the parts of the season, all Fs > 10.89, all ps < .001, "
+        "and by tide, F(1, 24.4) = 13.00, p = .001; the interaction was significant, "
+        "F(2, 4878.2) = 4.84, p = .008.",
+        "Crabs under odour moved less, b = -0.64, p = .026, and basked less, ln(W) = 11.01, "
+        "p < 0.001, r = 0.28; the model with tide fitted better, t(1879.70) = 6.26, p < .001, "
+        "r^{2} = .05, than the null model (critical χ^{2} = 7.81).",
+    ]
+    manuscript = manuscript_pdf(paragraphs, Layout(columns=2))
+    document, claims = read(manuscript)
+    assert [summary(claim) for claim in claims] == text_claims(paragraphs)
+    assert [(claim.test, claim.df) for claim in claims] == [
+        ("F", ()), ("F", ("1", "24.4")), ("F", ("2", "4878.2")), ("t", ("1879.70",))]
+
+
+@needs_fonts
+def test_boxes_on_a_page_shown_turned():
+    manuscript = manuscript_pdf(SKINKS[2:4], Layout(columns=1, rotate=90))
+    _, claims = read(manuscript)
+    assert len(claims) == 3
+    for claim in claims:
+        for box in claim.location.boxes:
+            # a page of 612 x 792 points shown turned a quarter: 792 wide, 612 high
+            assert 0 <= box.x0 < box.x1 <= 792 and 0 <= box.top < box.bottom <= 612
+            # the text runs down the shown page: its boxes are tall and narrow
+            assert box.bottom - box.top > box.x1 - box.x0

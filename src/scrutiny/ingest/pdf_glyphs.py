@@ -16,9 +16,9 @@ of the font, so it is decided per font and document, never per result:
    only when it is printed in another font than the characters on both sides of it (the
    sign font of a publisher), an unusual one (a control character, a private-use character)
    anywhere.
-3. For each font, the glyph seen where only "=" can stand is "="; a glyph known to stand for
-   a sign ("," for "<", "¼" for "=", ...) is that sign; another glyph after "p" is "<" (or
-   ">", when the p-values printed after it are mostly above .05). A letter in a font of its
+3. For each font, a glyph known to stand for a sign ("," for "<", "¼" for "=", "$" for "≥")
+   is that sign; another glyph seen where only "=" can stand (mostly) is "="; another glyph
+   after "p" is "<" (or ">", when the p-values printed after it are mostly above .05). A letter in a font of its
    own before a "2" is "χ" where degrees of freedom follow, "η" where an effect size does;
    a "2" in such a font at the start of a number is a minus sign.
 4. Every collected place whose glyph and font have a meaning gets it; the reader notes each
@@ -44,12 +44,13 @@ _SIGNS = "=<>\u2264\u2265\u2266\u2267\u2a7d\u2a7e"
 _ODD = (r"[\x00-\x08\x0e-\x1f\u00bc-\u00be\u2190-\u21ff\u25a0-\u25ff\u2a00-\u2bff"
         r"\ue000-\uf8ff\ufffd\ufffe]")
 # A sign slot: one glyph (group "sign") where only a sign can stand, before a number: an
-# ordinary character known to stand for a sign in such fonts, or an unusual one.
+# ordinary character known to stand for a sign in such fonts ("5" only after brackets and
+# letters: see the scans below), or an unusual one.
 _GLYPH = rf"(?P<sign>[,.$#]|{_ODD})"
 # A number, perhaps after one glyph that may stand for its minus sign (not a dash or a plus,
 # which need no repair).
-_NUMBER = (r"(?P<lead>[^\s\w.()\[\],;:+\-\u2010-\u2015\u2212]|[\x00-\x1f])?[ ]?"
-           r"(?P<number>\d+(?:\.\d+)?|\.\d+)")
+_NUMBER = (r"(?:(?P<lead>[^\s\w.()\[\],;:+\-\u2010-\u2015\u2212]|[\x00-\x1f])"
+           r"|[\-\u2010-\u2015\u2212])?\s?(?P<number>\d+(?:\.\d+)?|\.\d+)")
 # The scan starts with the glyph (so that the regex engine skips quickly through ordinary
 # text) and then looks behind it, glyph included, for what must precede it.
 _HEADS = {"df": "df", "N": "df", "n": "df", "p": "p", "ps": "p",
@@ -59,17 +60,17 @@ _LOOK_BEHIND = "(?:" + "|".join(f"(?<=\\b{re.escape(head)}{space}.)"
                                 for head in sorted(_HEADS, key=len, reverse=True)
                                 for space in ("", " ")) + ")"
 # two scans, each starting with a small set of characters (one set would be slower)
-_SLOTS = re.compile(f"(?P<sign>[,.$#])(?=[ ]?-?[.\\d]){_LOOK_BEHIND}[ ]?{_NUMBER}")
-_ODD_SLOTS = re.compile(f"(?P<sign>{_ODD}){_LOOK_BEHIND}[ ]?{_NUMBER}")
+_SLOTS = re.compile(f"(?P<sign>[,.$#5])(?=\\s?-?[.\\d]){_LOOK_BEHIND}\\s?{_NUMBER}")
+_ODD_SLOTS = re.compile(f"(?P<sign>{_ODD}){_LOOK_BEHIND}\\s?{_NUMBER}")
 _HEAD_BEFORE = re.compile(r"\b(df|ps?|[tFrzZ]s?|[Nn]|[χΧ][ ]?2)[ ]?$")
 #: a sign after brackets (checked: brackets of a statistic's degrees of freedom)
-_BRACKET_SLOTS = re.compile(rf"(?P<close>[)\]])[ ]?(?:{_GLYPH}|(?P<digit>5))[ ]?{_NUMBER}")
+_BRACKET_SLOTS = re.compile(rf"(?P<close>[)\]])\s?(?:{_GLYPH}|(?P<digit>5))\s?{_NUMBER}")
 #: what must come before a closing bracket for the sign after it to be a statistic's
-_STATISTIC_BEFORE = re.compile(r"(?:(?<![A-Za-z])[tFrzZ]|[χΧ][ ]?2|(?<![A-Za-z])[A-Za-z]2)"
+_STATISTIC_BEFORE = re.compile(r"(?:(?<![A-Za-z])[tFrzZ](?:['’]?s)?|[χΧ][ ]?2|(?<![A-Za-z])[A-Za-z]2)"
                                r"[ ]?[(\[][^()\[\]\n]{1,40}$")
 # An unusual glyph before a number anywhere ("MSE ¼ 1,204.55"): once the slots have shown what
 # a glyph stands for, it is read so here too.
-_ODD_BEFORE_NUMBER = re.compile(rf"(?P<sign>{_ODD})(?=[ ]?[-.\d])")
+_ODD_BEFORE_NUMBER = re.compile(rf"(?P<sign>{_ODD})(?=\s?[-.\d])")
 # A sign inside the brackets of a statistic: "(1, N ? 80)".
 _BRACKET_SIGN = re.compile(rf"[Nn][ ]?{_GLYPH}[ ]?\d")
 # A "2" after a single letter where a Greek letter must stand: chi-square before degrees of
@@ -144,12 +145,14 @@ def collect(page_number: int, lines, text_page, text: str | None = None,
             return None
         return font_at(offset)
 
-    def add(offset: int, role: str, value: str = "") -> None:
+    def add(offset: int, role: str, value: str = "", digit: int | None = None) -> None:
+        """`digit`: where a digit of the number after a sign is (the sign's font is compared
+        with the number's, not with a minus sign between them, which may share its font)."""
         glyph = text[offset]
         font = font_at(offset)
         if font is None:
             font = ""
-        after = neighbour_font(offset, 1)
+        after = font_at(digit) if digit is not None else neighbour_font(offset, 1)
         if role == "minus":
             # a minus sign may share its font with the sign before it; the digits are the test
             foreign = after is not None and font != after
@@ -180,7 +183,7 @@ def collect(page_number: int, lines, text_page, text: str | None = None,
             role = _HEADS.get(head.group(1), "statistic")
             role = "equals" if role == "df" else role
         sign = "digit" if closing and match.group("digit") else "sign"
-        add(match.start(sign), role, match.group("number"))
+        add(match.start(sign), role, match.group("number"), match.end("number") - 1)
         number = match.start("number")
         if match.group("lead"):
             add(match.start("lead"), "minus")
@@ -237,10 +240,11 @@ def decide(places: list[Place]) -> dict[tuple[str, str, str], str]:
     for (font, glyph), counts in roles.items():
         equals, p, statistic = counts["equals"], counts["p"], counts["statistic"]
         if equals or p or statistic:
-            if equals and equals >= p:
-                meaning[(font, glyph, "sign")] = "="
-            elif glyph in KNOWN_SIGNS:
+            if glyph in KNOWN_SIGNS:
+                # a "≥" where "=" may stand ("ts(31) ≥ 2.91"): what such fonts are known for
                 meaning[(font, glyph, "sign")] = KNOWN_SIGNS[glyph]
+            elif equals and equals >= p:
+                meaning[(font, glyph, "sign")] = "="
             elif p:
                 # below .05 counts for "<", above for ">"
                 score = sum(1 if v < 0.05 else -1 if v > 0.05 else 0 for v in values[(font, glyph)])
