@@ -498,8 +498,9 @@ def _draw_clipped_copy(pdf: canvas.Canvas, page: int, lines: list[PlacedLine],
     pdf.restoreState()
 
 
-def scanned_pdf(pages: int = 2) -> bytes:
-    """A PDF of page images without any text layer, as a scanner makes them."""
+def scanned_pdf(pages: int = 2, stamp: str | None = None) -> bytes:
+    """A PDF of page images without any text layer, as a scanner makes them; with `stamp`,
+    a line of text at the foot of every page (as repositories add to scans)."""
     from PIL import Image, ImageDraw
     from reportlab.lib.utils import ImageReader
 
@@ -511,6 +512,9 @@ def scanned_pdf(pages: int = 2) -> bytes:
         for row in range(40, 520, 14):
             draw.rectangle((40, row, 380 - (row * 7 + page * 31) % 90, row + 6), fill=40)
         pdf.drawImage(ImageReader(image), 0, 0, width=letter[0], height=letter[1])
+        if stamp:
+            pdf.setFont("Helvetica", 7)
+            pdf.drawString(72, 20, stamp)
         pdf.showPage()
     pdf.save()
     return buffer.getvalue()

@@ -10,9 +10,11 @@ printed result.
 
 from __future__ import annotations
 
+import io
 import subprocess
 import sys
 
+import pypdfium2
 import pytest
 
 import scrutiny
@@ -384,6 +386,25 @@ def test_encrypted_pdf():
 
 def test_pdf_without_a_text_layer():
     assert reason(scanned_pdf()) == "no text layer: scanned PDF, OCR not attempted"
+    # a scan that a repository stamped with a line of text on every page
+    stamped = scanned_pdf(pages=4, stamp="Downloaded from the Skerrow archive on 3 May")
+    assert reason(stamped) == "no text layer on 4 of 4 pages: scanned PDF, OCR not attempted"
+
+
+@needs_fonts
+def test_a_page_without_text_among_pages_with_text_is_noted():
+    manuscript = manuscript_pdf([PROSE * 12] + SKINKS[2:5], Layout(columns=1))
+    merged = pypdfium2.PdfDocument.new()
+    merged.import_pages(pypdfium2.PdfDocument(manuscript.data))
+    merged.import_pages(pypdfium2.PdfDocument(scanned_pdf(pages=1)))
+    buffer = io.BytesIO()
+    merged.save(buffer)
+    document, claims = read(Manuscript(buffer.getvalue(), manuscript.lines,
+                                       manuscript.pages + 1))
+    assert document.pages == manuscript.pages + 1
+    assert len(claims) == 5
+    assert any(f"no text of their own on pages {document.pages} " in note
+               for note in document.notes)
 
 
 @needs_fonts

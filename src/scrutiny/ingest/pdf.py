@@ -51,6 +51,8 @@ SUFFIXES = (".pdf",)
 _HEADER_REACH = 1024
 #: fewer visible characters than this in the whole file: no text layer
 _MIN_CHARACTERS = 20
+#: fewer than this on a page: a page without text of its own (a scan with a stamp, a figure)
+_TEXT_PAGE = 80
 #: share of the page height at its top and bottom where running heads and feet are looked for
 _BAND = 0.14
 #: a running head or foot repeats on at least this many pages (fewer in very short files)
@@ -168,6 +170,12 @@ def _read(data: bytes, path: str) -> Document:
             raise InputError(path, "this is a PDF, but none of its pages can be read (damaged "
                                    "or truncated file)")
         raise InputError(path, "no text layer: scanned PDF, OCR not attempted")
+    # A scan with a cover page or a download stamp of text: the manuscript itself is unread.
+    textless = [number for number, page in enumerate(pages, start=1)
+                if number not in failed_pages and page.visible_characters() < _TEXT_PAGE]
+    if len(textless) >= 2 and 3 * len(textless) >= 2 * page_count:
+        raise InputError(path, f"no text layer on {len(textless)} of {page_count} pages: "
+                               "scanned PDF, OCR not attempted")
 
     notes: list[str] = []
     if b"%%EOF" not in data[-_HEADER_REACH:]:
@@ -179,11 +187,9 @@ def _read(data: bytes, path: str) -> Document:
     for page in pages:
         page.cut_control_characters()
     notes[:0] = _repair_notes(pages)
-    empty = [number for number, page in enumerate(pages, start=1)
-             if not page.characters and number not in failed_pages]
-    if empty:
-        notes.append(f"no text layer on pages {_page_ranges(empty)} (scanned pages are not "
-                     "read)")
+    if textless:
+        notes.append(f"no text of their own on pages {_page_ranges(textless)} (scanned pages "
+                     "or figures: not read)")
     if failed_pages:
         notes.append(f"pages {_page_ranges(failed_pages)} could not be read (damaged)")
 
@@ -333,6 +339,9 @@ class _Page:
                 candidates.append(position)
         return [(order[position], _signature(self.line_text(order[position])))
                 for position in candidates]
+
+    def visible_characters(self) -> int:
+        return len(self.text) - self.text.count(" ") - max(0, len(self.starts) - 1)
 
     def line_text(self, index: int) -> str:
         end = self.starts[index + 1] - 1 if index + 1 < len(self.starts) else len(self.text)
