@@ -281,7 +281,8 @@ class _Page:
         chars = [line.pieces for line in lines]
         for index, pieces in enumerate(chars):
             if pieces.__class__ is not int:
-                if len(pieces) == 1 and pieces[0][0] == 0 and pieces[0][2] >= len(lines[index].text):
+                if (len(pieces) == 1 and pieces[0][0] == 0
+                        and pieces[0][2] >= len(lines[index].text)):
                     chars[index] = pieces[0][1]
                 else:
                     chars[index] = -1

@@ -18,9 +18,9 @@ of the font, so it is decided per font and document, never per result:
    anywhere.
 3. For each font, a glyph known to stand for a sign ("," for "<", "¼" for "=", "$" for "≥")
    is that sign; another glyph seen where only "=" can stand (mostly) is "="; another glyph
-   after "p" is "<" (or ">", when the p-values printed after it are mostly above .05). A letter in a font of its
-   own before a "2" is "χ" where degrees of freedom follow, "η" where an effect size does;
-   a "2" in such a font at the start of a number is a minus sign.
+   after "p" is "<" (or ">", when the p-values printed after it are mostly above .05). A
+   letter in a font of its own before a "2" is "χ" where degrees of freedom follow, "η" where
+   an effect size does; a "2" in such a font at the start of a number is a minus sign.
 4. Every collected place whose glyph and font have a meaning gets it; the reader notes each
    mapping in the Document's notes.
 """
@@ -66,8 +66,8 @@ _HEAD_BEFORE = re.compile(r"\b(df|ps?|[tFrzZ]s?|[Nn]|[χΧ][ ]?2)[ ]?$")
 #: a sign after brackets (checked: brackets of a statistic's degrees of freedom)
 _BRACKET_SLOTS = re.compile(rf"(?P<close>[)\]])\s?(?:{_GLYPH}|(?P<digit>5))\s?{_NUMBER}")
 #: what must come before a closing bracket for the sign after it to be a statistic's
-_STATISTIC_BEFORE = re.compile(r"(?:(?<![A-Za-z])[tFrzZ](?:['’]?s)?|[χΧ][ ]?2|(?<![A-Za-z])[A-Za-z]2)"
-                               r"[ ]?[(\[][^()\[\]\n]{1,40}$")
+_STATISTIC_BEFORE = re.compile(r"(?:(?<![A-Za-z])[tFrzZ](?:['’]?s)?|[χΧ][ ]?2"
+                               r"|(?<![A-Za-z])[A-Za-z]2)[ ]?[(\[][^()\[\]\n]{1,40}$")
 # An unusual glyph before a number anywhere ("MSE ¼ 1,204.55"): once the slots have shown what
 # a glyph stands for, it is read so here too.
 _ODD_BEFORE_NUMBER = re.compile(rf"(?P<sign>{_ODD})(?=\s?[-.\d])")
@@ -85,6 +85,7 @@ _LETTER_SLOTS = re.compile(
 )
 # The letter: any letter but a Greek one (which needs no repair), alone ("c2", "v2", "Ȥ2").
 _LETTER_BEFORE = re.compile(r"(?<![^\W\d_])[^\W\d_\u0370-\u03ff][ ]?\n?$")
+_DIGITS_AND_POINT = ("0", "1", "2", "3", "4", "5", "6", "7", "8", "9", ".")
 #: letters that are statistics in their own right and never stand for Greek ones here
 _NOT_GREEK = frozenset("tFrzZXxRpPNnd")
 
@@ -196,7 +197,7 @@ def collect(page_number: int, lines, text_page, text: str | None = None,
     for match in sign_numbers or ():
         number = match.start("number")
         if text[number] == "2" and match.group("sign") in _SIGNS and \
-                text[number + 1:number + 2] in ("0", "1", "2", "3", "4", "5", "6", "7", "8", "9", "."):
+                text[number + 1:number + 2] in _DIGITS_AND_POINT:
             add(number, "minus")
     for match in _LETTER_SLOTS.finditer(text):
         before = _LETTER_BEFORE.search(text, max(0, match.start() - 3), match.start())

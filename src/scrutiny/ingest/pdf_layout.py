@@ -126,7 +126,7 @@ class PageLayout:
     #: the visible page (crop box) in user space, and its rotation in degrees clockwise
     crop: tuple[float, float, float, float]
     rotation: int
-    #: repairs made on this page, by kind (see `REPAIRS`), with counts
+    #: repairs made on this page, by kind (the reader notes each kind), with counts
     repairs: dict[str, int] = field(default_factory=dict)
     #: characters on the page, and whether pdfium found any
     characters: int = 0
@@ -366,7 +366,8 @@ def read_page(raw_page, raw_textpage, context: Context | None = None) -> PageLay
 # where it may end (the last digit of a number after a sign). The edges of these
 # characters are kept while the page is open, so that the box of a claim can be given without
 # reading the page a second time (any other character is looked up then).
-_CLAIM_START = re.compile(r"(?<![^\W_])[tFrzZXxχΧ𝑡𝐹𝑟𝑧𝜒Δ∆*_](?![a-rt-z])|[Cc](?=hi)")
+_CLAIM_START = re.compile(r"(?<![^\W_])[tFrzZXxχΧ𝑡𝐹𝑟𝑧𝜒Δ∆*_](?![a-rt-z])"
+                          r"|[Cc](?=hi)")
 #: a sign (or a glyph that may stand for one) and the number after it (scanned once a page)
 SIGN_NUMBER = re.compile(r"(?P<sign>[=<>\u2264\u2265,\u00bc\u2afd\u2b0d\x00-\x08])\s?-?[ ]?"
                          r"(?P<number>[\d.,]*(\d))(?:[ ]?[×x*·][ ]?10[ ]?\^?-?[ ]?\d*(\d))?")
@@ -402,7 +403,8 @@ def record_edges(text_page, layout: PageLayout, text: str | None = None,
     result_lines = {bisect_right(starts, found.start()) - 1 for found in sign_numbers
                     if found.group("sign") != ","}
     # a claim may begin on the line before its sign and end on the line after it
-    for index in sorted(result_lines | {i - 1 for i in result_lines} | {i + 1 for i in result_lines}):
+    near = result_lines | {i - 1 for i in result_lines} | {i + 1 for i in result_lines}
+    for index in sorted(near):
         if 0 <= index < len(lines):
             line = lines[index]
             measure_end(page, line)
@@ -655,24 +657,39 @@ def _drop_hidden(page: TextPage, raw_page, lines: list[Line], layout: PageLayout
 def _gap_near(page: TextPage, line: Line, x: float) -> tuple[float, float, int] | None:
     """The widest gap between neighbouring characters of a line near `x`: (left edge, right
     edge, offset of the first character after the gap)."""
-    offsets = [offset for offset, character in enumerate(line.text)
-               if not character.isspace() and line.char_at(offset) is not None]
-    if len(offsets) < 4:
+    text = line.text
+
+    def printed(offset: int, step: int) -> int | None:
+        """The nearest printed character (not a space, with a box) from offset on."""
+        while 0 <= offset < len(text):
+            if not text[offset].isspace() and line.char_at(offset) is not None:
+                return offset
+            offset += step
         return None
-    # binary search for the first character that starts right of x
-    low, high = 0, len(offsets) - 1
+
+    # binary search for the first printed character that starts right of x
+    low, high = 0, len(text) - 1
     while low < high:
         middle = (low + high) // 2
-        if page.box(line.char_at(offsets[middle]))[0] < x:
-            low = middle + 1
+        found = printed(middle, 1)
+        if found is None or found > high:
+            high = middle
+        elif page.box(line.char_at(found))[0] < x:
+            low = found + 1
         else:
             high = middle
     best = None
-    for index in range(max(1, low - 3), min(len(offsets), low + 4)):
-        right_edge = page.box(line.char_at(offsets[index - 1]))[2]
-        left_edge = page.box(line.char_at(offsets[index]))[0]
-        if best is None or left_edge - right_edge > best[1] - best[0]:
-            best = (right_edge, left_edge, offsets[index])
+    after = printed(low, 1)
+    for _ in range(4):  # the gaps before this character and the next few
+        if after is None:
+            break
+        before = printed(after - 1, -1)
+        if before is not None:
+            right_edge = page.box(line.char_at(before))[2]
+            left_edge = page.box(line.char_at(after))[0]
+            if best is None or left_edge - right_edge > best[1] - best[0]:
+                best = (right_edge, left_edge, after)
+        after = printed(after + 1, 1)
     return best
 
 
@@ -685,16 +702,24 @@ def _split_interleaved_columns(page: TextPage, lines: list[Line],
     right = max(line.x1 for line in lines)
     middle = (left + right) / 2
     wide = [line for line in lines
-            if line.x0 < middle - 0.15 * (right - left) and line.x1 > middle + 0.15 * (right - left)]
+            if line.x0 < middle - 0.15 * (right - left)
+            and line.x1 > middle + 0.15 * (right - left)]
     if len(wide) < 6:
         return lines
-    step = max(1, len(wide) // 12)
-    sample = wide[::step][:12]
+    step = max(1, len(wide) // 9)
+    sample = wide[::step][:9]
+    # the quick test: on an ordinary page a character is printed at the middle of most lines
+    printed_there = sum(1 for line in sample[:3] if pdfium.FPDFText_GetCharIndexAtPos(
+        page.raw, middle, (line.bottom + line.top) / 2, 0.5, 0.5) >= 0)
+    if printed_there >= 2:
+        return lines
     gaps = []
-    for line in sample:
+    for tried, line in enumerate(sample, start=1):
         gap = _gap_near(page, line, middle)
         if gap is not None and gap[1] - gap[0] > max(1.2 * line.height, 6.0):
             gaps.append(gap)
+        if tried == 3 and len(gaps) < 2:
+            return lines  # the usual page: lines run on across the middle
     if len(gaps) < max(4, 2 * len(sample) // 3):
         return lines
     gutter_left = sorted(gap[0] for gap in gaps)[len(gaps) // 2]
