@@ -335,7 +335,7 @@ def test_spaces_that_pdfium_makes_up_inside_numbers_are_taken_out():
     assert [summary(claim) for claim in claims] == text_claims(paragraphs)
     assert "1,204.37" in document.text
     assert "2019. 48" in document.text  # a word space stays
-    assert any("spaces inside numbers" in note for note in document.notes)
+    assert any("space(s) inside numbers" in note for note in document.notes)
 
 
 @needs_fonts
@@ -465,6 +465,7 @@ def test_the_command_line_reports_bad_pdfs_and_checks_the_rest(tmp_path, one_col
     {"=": "\u2afd", "<": "\u2b0d"},      # "⫽" and "⬍"
     {"=": "5", "<": ",", "−": "2"},      # digits and punctuation of a math font
     {"≥": "$", "≤": "#", "=": "\u00bc"},
+    {"=": "\u00bc", "<": "\u0003", "−": "\u00c0"},   # "¼", a control character, "À"
 ])
 def test_each_sign_mapping_of_publisher_fonts(signs):
     paragraphs = [
@@ -527,3 +528,13 @@ def test_boxes_on_a_page_shown_turned():
             assert 0 <= box.x0 < box.x1 <= 792 and 0 <= box.top < box.bottom <= 612
             # the text runs down the shown page: its boxes are tall and narrow
             assert box.bottom - box.top > box.x1 - box.x0
+
+
+@needs_fonts
+def test_a_greek_letter_and_its_square_both_in_the_symbol_font():
+    paragraphs = [PROSE, "Waders chose roosts by tide, {greek:χ2}(1, N = 96) = 5.10, p = .024, "
+                  "and by wind, {greek:χ2}(2, N = 96) = 7.40, p = .025."]
+    manuscript = manuscript_pdf(paragraphs, Layout(columns=1, greek_map={"χ": "v"}))
+    document, claims = read(manuscript)
+    assert [summary(claim) for claim in claims] == text_claims(paragraphs)
+    assert [claim.test for claim in claims] == ["chi2", "chi2"]

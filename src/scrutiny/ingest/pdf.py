@@ -13,9 +13,9 @@ letters, dashes, hyphenation) is `normalise`'s work:
 
 * a printed line that pdfium cut where a superscript or subscript moves the baseline is one
   line again ("χ" + "2" + "(1, N = 80)"), and a word hyphenated at a line end is two lines again;
-* running heads and feet (lines at the top or bottom of three or more pages that are the same
-  but for their numbers) and page numbers are left out, so that a statistic broken across a
-  page break reads on;
+* running heads and feet (lines at the top or bottom of three or more pages, set off from the
+  text, that are the same but for their numbers) and page numbers are left out, so that a
+  statistic broken across a page break reads on;
 * margin line numbers, turned text (watermarks, stamps), text outside the page and invisible
   duplicate text layers are left out; columns written line by line across the page are read
   column by column;
@@ -63,7 +63,7 @@ _PAGE_NUMBER = re.compile(r"(?i)^(?:page|p\.|-|–|—)?\s*#\s*(?:(?:of|/)\s*#)?
 _CONTROL = re.compile(r"[\x00-\x08\x0b\x0c\x0e-\x1f\ufffe\uffff]")
 
 _REPAIR_NOTES = {
-    "unmapped glyphs": "{n} glyphs without a Unicode mapping were taken from the character "
+    "unmapped glyphs": "{n} glyph(s) without a Unicode mapping taken from the character "
                        "codes (pages {pages})",
     "turned text": "text turned against the page (watermarks, margin stamps) left out "
                    "(pages {pages})",
@@ -73,7 +73,7 @@ _REPAIR_NOTES = {
     "columns put in reading order": "columns printed line by line across the page were read "
                                     "column by column (pages {pages})",
     "margin line numbers": "margin line numbers left out (pages {pages})",
-    "spaces in numbers": "{n} spaces inside numbers taken out (pages {pages})",
+    "spaces in numbers": "{n} space(s) inside numbers taken out (pages {pages})",
     "running heads": "running heads, feet and page numbers left out (pages {pages})",
 }
 

@@ -48,8 +48,8 @@ _ODD = (r"[\x00-\x08\x0e-\x1f\u00bc-\u00be\u2190-\u21ff\u25a0-\u25ff\u2a00-\u2bf
 # letters: see the scans below), or an unusual one.
 _GLYPH = rf"(?P<sign>[,.$#]|{_ODD})"
 # A number, perhaps after one glyph that may stand for its minus sign (not a dash or a plus,
-# which need no repair).
-_NUMBER = (r"(?:(?P<lead>[^\s\w.()\[\],;:+\-\u2010-\u2015\u2212]|[\x00-\x1f])"
+# which need no repair; a Latin-1 letter such as "À" is what some publisher fonts print).
+_NUMBER = (r"(?:(?P<lead>[^\s\w.()\[\],;:+\-\u2010-\u2015\u2212]|[\x00-\x1f\u00c0-\u00ff])"
            r"|[\-\u2010-\u2015\u2212])?\s?(?P<number>\d+(?:\.\d+)?|\.\d+)")
 # The scan starts with the glyph (so that the regex engine skips quickly through ordinary
 # text) and then looks behind it, glyph included, for what must precede it.
@@ -203,7 +203,8 @@ def collect(page_number: int, lines, text_page, text: str | None = None,
         before = _LETTER_BEFORE.search(text, max(0, match.start() - 3), match.start())
         if before is None or text[before.start()] in _NOT_GREEK:
             continue
-        add(before.start(), "chi" if match.group("chi") else "eta")
+        # compared with the digits after it, not with the "2" (which may share its font)
+        add(before.start(), "chi" if match.group("chi") else "eta", digit=match.end() - 1)
     return places
 
 
