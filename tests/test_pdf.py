@@ -419,6 +419,10 @@ def test_a_pdf_is_recognised_by_its_content():
     data = unmapped_sign_pdf([["t(40) {=} 2.10, p {=} .042"]])
     assert sniff_format(data, "results.txt") == "pdf"
     assert sniff_format(b"\n\n" + data, "results") == "pdf"
+    assert sniff_format(b"junk from a mail gateway\n" + data, "results.pdf") == "pdf"
+    # a text that mentions a PDF header is a text
+    assert sniff_format(b"Notes: the file starts with %PDF-1.7, t(40) = 2.10, p = .042.\n",
+                        "notes.txt") == "text"
 
 
 @needs_fonts

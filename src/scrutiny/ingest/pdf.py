@@ -79,7 +79,13 @@ _REPAIR_NOTES = {
 
 
 def sniff(data: bytes, path: str) -> str | None:
-    return FORMAT if b"%PDF-" in data[:_HEADER_REACH] else None
+    head = data[:_HEADER_REACH]
+    if head.lstrip(b"\xef\xbb\xbf \t\r\n\x00").startswith(b"%PDF-"):
+        return FORMAT
+    # a header after some junk (which readers accept), but not a text that mentions one
+    if b"%PDF-" in head and (b"endobj" in data or b"startxref" in data):
+        return FORMAT
+    return None
 
 
 def _open(data: bytes, path: str) -> pypdfium.PdfDocument:
