@@ -188,6 +188,8 @@ def test_running_heads_and_page_numbers_are_left_out(two_columns):
     assert not any(line.strip().isdigit() for line in document.text.split("\n"))
     assert any("running heads" in note for note in document.notes)
     assert [summary(claim) for claim in claims] == text_claims(SKINKS)
+    # the second page has a few lines only, but they are text, not a scan
+    assert not any("no text of their own" in note for note in document.notes)
 
 
 @needs_fonts

@@ -165,7 +165,10 @@ def _read(data: bytes, path: str) -> Document:
             places.extend(pdf_glyphs.collect(index, layout.lines, text_page, text, starts,
                                              sign_numbers))
             record_edges(text_page, layout, text, starts, sign_numbers)
-            pages.append(_Page(layout, text, starts))
+            page = _Page(layout, text, starts)
+            if page.visible_characters() < _TEXT_PAGE:
+                page.pictured = _has_image(raw_page)
+            pages.append(page)
         finally:
             if raw_textpage:
                 pdfium.FPDFText_ClosePage(raw_textpage)
@@ -178,7 +181,8 @@ def _read(data: bytes, path: str) -> Document:
         raise InputError(path, "no text layer: scanned PDF, OCR not attempted")
     # A scan with a cover page or a download stamp of text: the manuscript itself is unread.
     textless = [number for number, page in enumerate(pages, start=1)
-                if number not in failed_pages and page.visible_characters() < _TEXT_PAGE]
+                if number not in failed_pages and page.visible_characters() < _TEXT_PAGE
+                and (page.pictured or not page.characters)]
     if len(textless) >= 2 and 3 * len(textless) >= 2 * page_count:
         raise InputError(path, f"no text layer on {len(textless)} of {page_count} pages: "
                                "scanned PDF, OCR not attempted")
@@ -202,6 +206,15 @@ def _read(data: bytes, path: str) -> Document:
     text, segments, geometry = _assemble(document, pages)
     return build_document(path, FORMAT, text, segments=segments, pages=page_count,
                           geometry=geometry, notes=tuple(notes))
+
+
+def _has_image(raw_page) -> bool:
+    """True if the page shows an image (looked at for pages with little text only)."""
+    for index in range(pdfium.FPDFPage_CountObjects(raw_page)):
+        raw_object = pdfium.FPDFPage_GetObject(raw_page, index)
+        if raw_object and pdfium.FPDFPageObj_GetType(raw_object) == pdfium.FPDF_PAGEOBJ_IMAGE:
+            return True
+    return False
 
 
 def _repair_notes(layouts: list["_Page"]) -> list[str]:
@@ -255,7 +268,7 @@ class _Page:
     Unicode mapping) may have to be cut once the fonts are understood."""
 
     __slots__ = ("text", "starts", "chars", "pieces", "boxes", "exact", "edges", "crop",
-                 "rotation", "repairs", "characters", "lines", "_gaps")
+                 "rotation", "repairs", "characters", "lines", "_gaps", "pictured")
 
     def __init__(self, layout: PageLayout | None, text: str = "",
                  starts: list[int] | None = None) -> None:
@@ -273,6 +286,8 @@ class _Page:
         self.characters = 0
         self.lines: list[Line] | None = None
         self._gaps: list[float] | None = None
+        #: the page shows an image (set for pages with little text: a scan, a figure)
+        self.pictured = False
         if layout is not None:
             self._take(layout)
 
