@@ -185,7 +185,8 @@ class Layout:
     #: a light diagonal text printed over every page
     watermark: str | None = None
     #: "invisible": every line printed a second time in invisible text (render mode 3);
-    #: "clipped": an old version of the page embedded as a figure, clipped to a small window
+    #: "clipped": an old version of the page embedded as a figure, clipped to a small window;
+    #: "only": the text printed invisibly only, as the recognised text layer of a scan
     hidden_copy: str | None = None
     #: draw two-column pages line by line across both columns instead of column by column
     interleaved: bool = False
@@ -451,7 +452,7 @@ def manuscript_pdf(paragraphs: list[str], layout: Layout | None = None) -> Manus
             else:
                 ordered = on_page
             for line in ordered:
-                _draw_line(pdf, line, size)
+                _draw_line(pdf, line, size, mode=3 if layout.hidden_copy == "only" else 0)
                 if layout.line_numbers:
                     pdf.setFont("FactoryBody", 7)
                     pdf.drawRightString(layout.margin - 14, line.baseline, str(line.number))
