@@ -275,7 +275,7 @@ def test_columns_written_line_by_line_across_the_page_are_read_column_by_column(
 
 PUBLISHER = [
     PROSE,
-    "Skinks basked longer on granite, F(1, 22) {sym:=} 41.30, MSE {sym:=} 1,204.55, "
+    "Skinks basked longer on granite, F(1, 26) {sym:=} 38.70, MSE {sym:=} 1,318.20, "
     "p {sym:<} .001, and on 1, 2 or 3 ledges at a time.",
     "Crabs left the pools sooner, t(40) {sym:=} {sym:−}2.45, p {sym:=} .019, and pipers "
     "sang less, F{sym:<}1, when the wind rose.",
@@ -296,7 +296,7 @@ def test_signs_of_a_publisher_font_are_read_as_the_signs_they_print():
     assert "DejaVuSans" in notes and "'<'" in notes and "'='" in notes
     # commas of the text's own font stay commas; the "=" after MSE is read too
     printed = " ".join(document.text.split())
-    assert "MSE = 1,204.55" in printed and "on 1, 2 or 3 ledges" in printed
+    assert "MSE = 1,318.20" in printed and "on 1, 2 or 3 ledges" in printed
 
 
 @needs_fonts
@@ -330,12 +330,12 @@ def test_greek_letters_of_a_symbol_font_printed_as_latin_letters(chi, eta):
 
 @needs_fonts
 def test_spaces_that_pdfium_makes_up_inside_numbers_are_taken_out():
-    paragraphs = [PROSE, "The crabs left sooner, t(58) = 2.{gap}45, p = .017, MSE = 1,{gap}204.37,"
+    paragraphs = [PROSE, "The crabs left sooner, t(58) = 2.{gap}45, p = .017, MSE = 1,{gap}318.62,"
                   " in 2019. 48 crabs stayed, F(1, 50) = 1{gap}.20, p = .279."]
     manuscript = manuscript_pdf(paragraphs, Layout(columns=1))
     document, claims = read(manuscript)
     assert [summary(claim) for claim in claims] == text_claims(paragraphs)
-    assert "1,204.37" in document.text
+    assert "1,318.62" in document.text
     assert "2019. 48" in document.text  # a word space stays
     assert any("space(s) inside numbers" in note for note in document.notes)
 
@@ -354,14 +354,14 @@ def test_mathematical_italic_letters():
 
 def test_signs_without_any_unicode_mapping_are_read_from_their_glyphs():
     data = unmapped_sign_pdf([[
-        "The groups differed, F(1, 22) {=} 41.30, MSE {=} 1,204.55, p {<} .0001,",
+        "The groups differed, F(1, 26) {=} 38.70, MSE {=} 1,318.20, p {<} .0001,",
         "and the crabs left sooner, t(40) {=} 2.10, p {=} .042, but the",
         "pipers did not, t(40) {=} 0.61, p {>} .50, nor the waders, p {>} .40.",
     ]])
     document = document_from_bytes(data, "publisher.pdf")
     claims = find_claims(document)
     assert [(c.test, c.df, c.statistic, c.p.comparator, c.p.reported) for c in claims] == [
-        ("F", ("1", "22"), "41.30", "<", ".0001"),
+        ("F", ("1", "26"), "38.70", "<", ".0001"),
         ("t", ("40",), "2.10", "=", ".042"),
         ("t", ("40",), "0.61", ">", ".50"),
     ]
@@ -480,7 +480,7 @@ def test_the_command_line_reports_bad_pdfs_and_checks_the_rest(tmp_path, one_col
 def test_each_sign_mapping_of_publisher_fonts(signs):
     paragraphs = [
         PROSE,
-        "Skinks basked longer on granite, F(1,22) {sym:=} 41.30, p {sym:<} .001, and crabs "
+        "Skinks basked longer on granite, F(1,26) {sym:=} 38.70, p {sym:<} .001, and crabs "
         "left sooner, t(40) {sym:=} {sym:−}2.45, p {sym:=} .019.",
         "Pipers sang in bouts of at least four, ts(31) {sym:≥} 2.91, ps {sym:≤} .007, and the "
         "waders roosted by the tide, χ^{2}(1, N {sym:=} 96) {sym:=} 5.10, p {sym:=} .024.",
@@ -495,10 +495,10 @@ def test_each_sign_mapping_of_publisher_fonts(signs):
 def test_a_double_spaced_thesis_with_page_numbers_at_the_top():
     # correlations without df, "p = < .001", page numbers at the top right of every page
     paragraphs = [PROSE * 14,
-                  "Working memory and reasoning were related, r = .50, 95% CI [.24, .70], p = < "
-                  ".001, but typing speed was not, r = .19, 95% CI [-.11, .47], p = .21.",
+                  "Working memory and reasoning were related, r = .47, 95% CI [.21, .67], p = < "
+                  ".001, but typing speed was not, r = .17, 95% CI [-.12, .44], p = .25.",
                   PROSE * 14,
-                  "The regression on letter recall was significant, F(2, 40) = 7.99, p = .001."]
+                  "The regression on letter recall was significant, F(2, 44) = 8.31, p = .001."]
     manuscript = manuscript_pdf(paragraphs, Layout(columns=1, leading=24, page_numbers="top"))
     document, claims = read(manuscript)
     assert manuscript.pages >= 3
@@ -513,18 +513,18 @@ def test_a_double_spaced_thesis_with_page_numbers_at_the_top():
 def test_decimal_df_bounds_and_results_of_tests_not_recomputed():
     paragraphs = [
         PROSE,
-        "Amplitudes differed between the parts of the season, all Fs > 10.89, all ps < .001, "
-        "and by tide, F(1, 24.4) = 13.00, p = .001; the interaction was significant, "
-        "F(2, 4878.2) = 4.84, p = .008.",
-        "Crabs under odour moved less, b = -0.64, p = .026, and basked less, ln(W) = 11.01, "
-        "p < 0.001, r = 0.28; the model with tide fitted better, t(1879.70) = 6.26, p < .001, "
-        "r^{2} = .05, than the null model (critical χ^{2} = 7.81).",
+        "Amplitudes differed between the parts of the season, all Fs > 12.40, all ps < .001, "
+        "and by tide, F(1, 31.6) = 11.20, p = .002; the interaction was significant, "
+        "F(2, 3921.7) = 5.12, p = .006.",
+        "Crabs under odour moved less, b = -0.71, p = .031, and basked less, ln(W) = 9.84, "
+        "p < 0.001, r = 0.31; the model with tide fitted better, t(1642.30) = 5.87, p < .001, "
+        "r^{2} = .04, than the null model (critical χ^{2} = 5.99).",
     ]
     manuscript = manuscript_pdf(paragraphs, Layout(columns=2))
     document, claims = read(manuscript)
     assert [summary(claim) for claim in claims] == text_claims(paragraphs)
     assert [(claim.test, claim.df) for claim in claims] == [
-        ("F", ()), ("F", ("1", "24.4")), ("F", ("2", "4878.2")), ("t", ("1879.70",))]
+        ("F", ()), ("F", ("1", "31.6")), ("F", ("2", "3921.7")), ("t", ("1642.30",))]
 
 
 @needs_fonts

@@ -8,7 +8,7 @@ of the font, so it is decided per font and document, never per result:
 
 1. While each page is read, every place where only a sign can stand is collected with the
    font of the glyph printed there: after a statistic with degrees of freedom
-   ("F(1, 22) ? 41.30", where only "=" can stand), after "df" and "N", after "p" ("p ? .001",
+   ("F(1, 26) ? 38.70", where only "=" can stand), after "df" and "N", after "p" ("p ? .001",
    where "<", "=" or ">" can), after a statistic without degrees of freedom ("F ? 1"); and
    every single letter printed before a "2" where a chi-square ("?2(1, N = 80)") or an eta
    squared ("?2p = .21") must stand.
@@ -68,7 +68,7 @@ _BRACKET_SLOTS = re.compile(rf"(?P<close>[)\]])\s?(?:{_GLYPH}|(?P<digit>5))\s?{_
 #: what must come before a closing bracket for the sign after it to be a statistic's
 _STATISTIC_BEFORE = re.compile(r"(?:(?<![A-Za-z])[tFrzZ](?:['’]?s)?|[χΧ][ ]?2"
                                r"|(?<![A-Za-z])[A-Za-z]2)[ ]?[(\[][^()\[\]\n]{1,40}$")
-# An unusual glyph before a number anywhere ("MSE ¼ 1,204.55"): once the slots have shown what
+# An unusual glyph before a number anywhere ("MSE ¼ 1,318.20"): once the slots have shown what
 # a glyph stands for, it is read so here too.
 _ODD_BEFORE_NUMBER = re.compile(rf"(?P<sign>{_ODD})(?=\s?[-.\d])")
 # A sign inside the brackets of a statistic: "(1, N ? 80)".

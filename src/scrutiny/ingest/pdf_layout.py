@@ -168,7 +168,7 @@ class TextPage:
         if length <= 0:
             return ""
         name = self._font_buffer.value.decode("latin-1", "replace")
-        # Subset fonts carry a six-letter tag ("JMDKFP+AdvP49811"); the tag differs between
+        # Subset fonts carry a six-letter tag ("ABCDEF+MathPi"); the tag differs between
         # subsets of one font, so the name without it identifies the font.
         return name.split("+", 1)[1] if len(name) > 7 and name[6] == "+" else name
 
@@ -884,7 +884,7 @@ _SPACE_IN_NUMBER = re.compile(r"\d(?:[.,]( )\d|( )[.,]\d)")
 
 
 def close_numbers(text_page, layout: PageLayout, text: str, starts: list[int]) -> bool:
-    """Take out a space that pdfium put into a number ("312. 48", "1, 204.37") because its
+    """Take out a space that pdfium put into a number ("127. 64", "1, 318.62") because its
     characters were set a little apart: a space pdfium made up (there is no space character),
     narrower than a quarter of the font size, which no word space is. `text` and `starts` are
     the page's lines joined (`page_text`); True if a line changed."""
