@@ -415,6 +415,9 @@ def test_truncated_and_damaged_pdfs(one_column):
     assert "truncated" in reason(truncated)
     damaged = b"%PDF-1.7\n" + bytes(range(256)) * 40 + b"\n%%EOF\n"
     assert "damaged" in reason(damaged)
+    no_pages = io.BytesIO()
+    pypdfium2.PdfDocument.new().save(no_pages)
+    assert reason(no_pages.getvalue()) == "this is a PDF without any page"
 
 
 def test_a_pdf_is_recognised_by_its_content():

@@ -98,6 +98,8 @@ def _open(data: bytes, path: str) -> pypdfium.PdfDocument:
         if code == pdfium.FPDF_ERR_SECURITY:
             raise InputError(path, "encrypted PDF with an unsupported security handler: "
                                    "cannot be read") from None
+        if code == pdfium.FPDF_ERR_SUCCESS:  # it opened, but has no page
+            raise InputError(path, "this is a PDF without any page") from None
         if b"%%EOF" not in data[-_HEADER_REACH:]:
             raise InputError(path, "this is a PDF, but it is truncated (the file stops before "
                                    "its end) and cannot be read") from None
