@@ -98,12 +98,22 @@ def _open(data: bytes, path: str) -> pypdfium.PdfDocument:
         if code == pdfium.FPDF_ERR_SECURITY:
             raise InputError(path, "encrypted PDF with an unsupported security handler: "
                                    "cannot be read") from None
-        if code == pdfium.FPDF_ERR_SUCCESS:  # it opened, but has no page
+        if _opens_without_pages(data):
             raise InputError(path, "this is a PDF without any page") from None
         if b"%%EOF" not in data[-_HEADER_REACH:]:
             raise InputError(path, "this is a PDF, but it is truncated (the file stops before "
                                    "its end) and cannot be read") from None
         raise InputError(path, "this is a PDF, but it is damaged and cannot be read") from None
+
+
+def _opens_without_pages(data: bytes) -> bool:
+    """True if pdfium can open the file but finds no page in it (pdfium's last error is not
+    reset by a success, so it cannot tell this case from a damaged file)."""
+    handle = pdfium.FPDF_LoadMemDocument64(data, len(data), None)
+    if not handle:
+        return False
+    pdfium.FPDF_CloseDocument(handle)
+    return True
 
 
 def _page_ranges(numbers: list[int]) -> str:
