@@ -27,6 +27,7 @@ else:  # pragma: no cover
 from scrutiny import check_file
 from scrutiny.errors import InputError
 from scrutiny.ingest import read_document
+from scrutiny.patterns import load_library
 
 ROOT = Path(__file__).resolve().parents[1]
 DEFAULT_FOLDER = ROOT.parent / "shared" / "field-pdfs"
@@ -48,6 +49,7 @@ def main() -> int:
     if not paths:
         print(f"no PDFs in {args.folder}")
         return 1
+    load_library()  # compiled once here, not in every child process that checks a file
     failures = 0
     total_pages = 0
     total_time = 0.0
