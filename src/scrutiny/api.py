@@ -19,6 +19,7 @@ from typing import BinaryIO, Iterable
 from .check import Context, run_checks, verdict
 from .errors import InputError
 from .extract import find_claims
+from .patterns import load_library
 from .ingest import (
     document_from_bytes,
     document_from_text,
@@ -170,6 +171,7 @@ def check_paths(paths: Iterable[str], settings: Settings | None = None,
     the others."""
     settings = settings or Settings()
     inputs, skipped = collect_inputs(paths)
+    load_library()  # compile the patterns once, before the per-file child processes fork
     documents = tuple(_check_one(name, settings, stdin) for name in inputs)
     return Run(settings=settings, documents=documents, skipped=tuple(skipped))
 
