@@ -374,3 +374,49 @@ def test_negligible_effect_too_wide_to_rule_out(text, interval, threshold):
             in flag.message)
     assert "practically equivalent" not in flag.message
     assert "only because" not in flag.message
+
+
+# -- effect-mismatch -------------------------------------------------------------------------
+# Expected values follow the conversion formulas of Lakens (2013) and Cohen (1988), section 8.1
+# of the reference compilation (ES-F-01 to ES-F-09), evaluated by hand for each sentence.
+
+@pytest.mark.parametrize("text", [
+    # t(28) = 2.45: d at least t/sqrt(29) = 0.455 under any convention; 0.23 is impossible
+    "The groups differed, t(28) = 2.45, p = .021, d = 0.23.",
+    # printed group sizes fix d = 2.45 sqrt(1/12 + 1/18) = 0.913
+    "Treated (n = 12) and control (n = 18) voles differed, t(28) = 2.45, p = .021, d = 0.60.",
+    # partial eta squared = 6.25 / (6.25 + 40) = .135
+    "Season mattered, F(1, 40) = 6.25, p = .017, ηp² = .41.",
+    # eta squared cannot exceed the partial eta squared 2 * 6.25 / (2 * 6.25 + 40) = .238
+    "Season mattered, F(2, 40) = 6.25, p = .004, η2 = .44.",
+    # phi = sqrt(4 / 100) = .20
+    "Colour mattered, χ2(1, N = 100) = 4.00, p = .046, φ = .35.",
+    # V = sqrt(16 / (100 m)) with m = 1 or 2 (df 4: a 2 x 5 or a 3 x 3 table): .40 or .28
+    "Colour mattered, χ2(4, N = 100) = 16.00, p = .003, V = .20.",
+    # r = sqrt(t^2 / (t^2 + df)) = .42 for t(28) = 2.45
+    "The groups differed, t(28) = 2.45, p = .021, r = .21.",
+    # R squared of the model F: 5 * 78.92 / (5 * 78.92 + 611) = .392
+    "Model fit was good, R2 = .52, F(5, 611) = 78.92, p < .001.",
+])
+def test_effect_mismatch_raised(text):
+    assert "effect-mismatch" in flags_for(text)
+
+
+@pytest.mark.parametrize("text", [
+    "The groups differed, t(28) = 2.45, p = .021, d = 0.89.",      # 2t/sqrt(30) = 0.895
+    "The groups differed, t(28) = 2.45, p = .021, d = 0.93.",      # 2t/sqrt(28) = 0.926 (Rosenthal)
+    "The groups differed, t(28) = 2.45, p = .021, d = 1.20.",      # unequal groups: larger d
+    "Within nests, paired samples differed, t(28) = 2.45, p = .021, d_z = 0.45.",  # t/sqrt(29)
+    "Within nests, paired samples differed, t(28) = 2.45, p = .021, d = 0.20.",    # d_av: unknown
+    "Treated (n = 12) and control (n = 18) voles differed, t(28) = 2.45, p = .021, d = 0.91.",
+    "The groups differed, t(28) = 2.45, p = .021, g = 0.87.",      # 0.895 x J(28) = 0.871
+    "Season mattered, F(1, 40) = 6.25, p = .017, ηp² = .14.",
+    "Season mattered, F(2, 40) = 6.25, p = .004, η2 = .11.",       # below .238: a smaller share
+    "Colour mattered, χ2(1, N = 100) = 4.00, p = .046, φ = .20.",
+    "Colour mattered, χ2(4, N = 100) = 16.00, p = .003, V = .28.",  # 3 x 3 table: sqrt(16/200)
+    "The groups differed, t(28) = -2.45, p = .021, r = .42.",      # signs are not compared
+    "Model fit was good, R2 = .39, F(5, 611) = 78.92, p < .001.",
+    "Model fit was good, adjusted R2 = .52, F(5, 611) = 78.92, p < .001.",  # adjusted: not read
+])
+def test_effect_mismatch_not_raised(text):
+    assert "effect-mismatch" not in flags_for(text)

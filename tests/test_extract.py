@@ -194,3 +194,47 @@ def test_cue_words_are_found_anywhere_in_a_long_text():
     text = filler + "All tests were One-Tailed. Chicks fledged sooner, t(28) = 2.20, p = .018. " + filler
     [claim] = find_claims(document_from_text(text))
     assert claim.tails_stated == "one"
+
+
+@pytest.mark.parametrize("sentence, measure, value, label", [
+    ("The groups differed, t(28) = 2.45, p = .021, d = 0.93.", "d", "0.93", "d"),
+    ("The groups differed, t(28) = 2.45, p = .021, Cohen's d = −0.41.", "d", "−0.41", "Cohen's d"),
+    ("Paired counts differed, t(28) = 2.45, p = .021, d_z = 0.45.", "d", "0.45", "d_z"),
+    ("The groups differed, t(28) = 2.45, p = .021, Hedges' g = 0.87.", "g", "0.87", "Hedges' g"),
+    ("Season mattered, F(1, 40) = 6.25, MSE = 1.2, ηp² = .14, p = .017.", "eta2_partial", ".14",
+     "ηp²"),
+    ("Season mattered, F(2, 40) = 6.25, p = .004, partial η2 = .24.", "eta2_partial", ".24",
+     "partial η2"),
+    ("Season mattered, F(2, 40) = 6.25, p = .004, η² = .11.", "eta2", ".11", "η²"),
+    ("Model fit was good, R2 = .39, F(5, 611) = 78.92, p < .001.", "R2", ".39", "R2"),
+    ("Colour mattered, χ2(1, N = 100) = 4.00, p = .046, φ = .20.", "phi", ".20", "φ"),
+    ("Colour mattered, χ2(4, N = 100) = 16.00, p = .003, Cramér's V = .28.", "V", ".28",
+     "Cramér's V"),
+    ("The groups differed, t(28) = 2.45, p = .021, r = .42.", "r", ".42", "r"),
+])
+def test_printed_effect_sizes_are_read(sentence, measure, value, label):
+    [claim] = find_claims(document_from_text(sentence))
+    assert (claim.effect_printed.measure, claim.effect_printed.value,
+            claim.effect_printed.label) == (measure, value, label)
+
+
+@pytest.mark.parametrize("sentence", [
+    "The groups differed, t(28) = 2.45, p = .021.",
+    "Model fit was good, adjusted R2 = .52, F(5, 611) = 78.92, p < .001.",
+    # the d belongs to the next result, after its own statistic
+    "The groups differed, t(28) = 2.45, p = .021, and F(1, 30) = 4.40, p = .044, d = 0.77.",
+])
+def test_no_printed_effect_where_none_belongs_to_the_result(sentence):
+    assert find_claims(document_from_text(sentence))[0].effect_printed is None
+
+
+@pytest.mark.parametrize("sentence, sizes", [
+    ("Treated (n = 12) and control (n = 18) voles differed, t(28) = 2.45, p = .021.", ("12", "18")),
+    ("Voles differed, n1 = 14, n2 = 16, t(28) = 2.45, p = .021.", ("14", "16")),
+    # sizes that do not add up to df + 2 are not these groups
+    ("Treated (n = 12) and control (n = 20) voles differed, t(28) = 2.45, p = .021.", None),
+    ("Of the voles (n = 30), the treated dug deeper, t(28) = 2.45, p = .021.", None),
+])
+def test_printed_group_sizes_are_read(sentence, sizes):
+    [claim] = find_claims(document_from_text(sentence))
+    assert claim.group_sizes == sizes

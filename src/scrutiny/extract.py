@@ -30,7 +30,7 @@ from typing import Iterator
 
 import regex
 
-from .model import Claim, Document, PValue
+from .model import Claim, Document, PrintedEffect, PValue
 from .patterns import Library, Pattern, load_library
 
 #: how far after a statistic its p-value may be printed
@@ -68,6 +68,15 @@ _WHITESPACE = regex.compile(r"\s+")
 _ONLY_SEPARATORS = regex.compile(r"[\s,;]*")
 #: how far before a statistic its degrees of freedom may be printed ("df = 2, 87, F = ...")
 _DF_BEFORE = 30
+#: how far before a statistic an R squared may be printed ("R2 = .39, F(5, 611) = 78.92")
+_EFFECT_BEFORE = 30
+
+
+def _df_value(printed: str) -> float | None:
+    try:
+        return float(printed.replace(",", ""))
+    except ValueError:
+        return None
 
 
 def _comparator(printed: str) -> str:
@@ -220,7 +229,7 @@ def find_claims(document: Document, library: Library | None = None) -> list[Clai
     library = library or load_library()
     text = document.normalised
     boundaries = _Boundaries.of(text, library)
-    heads = statistic_heads(text, library)
+    heads = _with_their_p(statistic_heads(text, library), text, library, boundaries)
     claims: list[Claim] = []
     for index, head in enumerate(heads):
         next_head = heads[index + 1].start() if index + 1 < len(heads) else len(text)
@@ -228,6 +237,53 @@ def find_claims(document: Document, library: Library | None = None) -> list[Clai
         if claim is not None:
             claims.append(claim)
     return claims
+
+
+def _with_their_p(heads: list[regex.Match], text: str, library: Library,
+                  boundaries: _Boundaries) -> list[regex.Match]:
+    """The heads that count: a pattern that needs a p-value ("r = .42", "t = 30 s") counts only
+    when one follows before the next head. A head that does not count must not end the window
+    of the result before it ("t(28) = 2.45, p = .021, r = .42": the r is an effect size)."""
+    kept = []
+    for index, head in enumerate(heads):
+        if library.matched_pattern("statistic", head).needs_p:
+            next_head = heads[index + 1].start() if index + 1 < len(heads) else len(text)
+            end = min(next_head, boundaries.sentence(head.start(), len(text))[1],
+                      head.end() + WINDOW)
+            if not (_first(library.scanner("p-value"), text, head.end(), end)
+                    or _first(library.scanner("not-significant"), text, head.end(), end)):
+                continue
+        kept.append(head)
+    return kept
+
+
+def _printed_effect(library: Library, text: str, head: regex.Match, window_end: int,
+                    sentence_start: int) -> regex.Match | None:
+    """The first effect size printed after the statistic, or an R squared just before it."""
+    after = _first(library.scanner("printed-effect"), text, head.end(), window_end)
+    if after is not None:
+        return after
+    before = _last(library.scanner("printed-effect"), text,
+                   max(sentence_start, head.start() - _EFFECT_BEFORE), head.start())
+    if before is not None and library.matched_pattern("printed-effect", before).measure == "R2" \
+            and _ONLY_SEPARATORS.fullmatch(text, before.end(), head.start()):
+        return before
+    return None
+
+
+def _group_sizes(library: Library, text: str, sentence: tuple[int, int],
+                 df: float | None) -> tuple[regex.Match, regex.Match] | None:
+    """Two group sizes printed in the sentence that add up to df + 2 (a two-group t test)."""
+    if df is None:
+        return None
+    sizes = list(library.scanner("group-size").finditer(text, *sentence))
+    if len(sizes) != 2:
+        return None
+    try:
+        total = sum(float(m.group("size").replace(",", "")) for m in sizes)
+    except ValueError:
+        return None
+    return (sizes[0], sizes[1]) if abs(total - (df + 2.0)) < 1e-9 else None
 
 
 def _first(scanner: regex.Pattern, text: str, start: int, end: int) -> regex.Match | None:
@@ -330,7 +386,24 @@ def _claim_at(document: Document, library: Library, boundaries: _Boundaries,
 
     if tails is None:
         tails = boundaries.stated("tails", head.start(), len(text))
-    design = boundaries.stated("design", head.start(), len(text)) if pattern.test == "t" else None
+    two_groups_possible = pattern.test == "t" or (pattern.test == "F" and df[:1] == ("1",))
+    design = boundaries.stated("design", head.start(), len(text)) if two_groups_possible else None
+    group_sizes = None
+    if two_groups_possible and design != "within" and df:
+        sizes = _group_sizes(library, text, (sentence_start, sentence_end),
+                             _df_value(df[0] if pattern.test == "t" else df[-1]))
+        if sizes is not None:
+            group_sizes = (printed(sizes[0], "size"), printed(sizes[1], "size"))
+    effect_match = _printed_effect(library, text, head, window_end, sentence_start)
+    effect_printed = None
+    if effect_match is not None:
+        effect_printed = PrintedEffect(
+            measure=library.matched_pattern("printed-effect", effect_match).measure,
+            value=printed(effect_match, "effect_value") or "",
+            label=_WHITESPACE.sub(" ", document.text[
+                document.original_offset(effect_match.start()):
+                document.original_offset(effect_match.start("effect_value"))]).strip(" =*_"),
+        )
 
     aggregate = bool(head.group("plural")) or bool(p_match and p_match.group("p_plural")) \
         or bool(_ALL_BEFORE.search(text, max(0, head.start() - 12), head.start()))
@@ -351,6 +424,8 @@ def _claim_at(document: Document, library: Library, boundaries: _Boundaries,
         n=n,
         tails_stated=tails,
         design_stated=design,
+        group_sizes=group_sizes,
+        effect_printed=effect_printed,
         aggregate=aggregate,
         pattern=pattern.id,
     )

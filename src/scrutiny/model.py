@@ -202,6 +202,19 @@ class PValue:
 
 
 @dataclass(frozen=True, slots=True)
+class PrintedEffect:
+    """An effect size printed with a result ("d = 0.93"), exactly as printed.
+
+    `measure` is what it is: "d", "g", "eta2", "eta2_partial", "r", "R2", "phi" or "V";
+    `label` the symbol as printed ("Cohen's d", "ηp²") and `value` the number as printed.
+    """
+
+    measure: str
+    value: str
+    label: str
+
+
+@dataclass(frozen=True, slots=True)
 class Claim:
     """One reported test result, exactly as the text prints it.
 
@@ -224,6 +237,11 @@ class Claim:
     #: "within" (one sample, paired, repeated measures) or "between" (independent groups) when
     #: the words around a t test say so, else None
     design_stated: str | None = None
+    #: the sizes of two groups printed in the sentence ("n1 = 24, n2 = 26") when they add up
+    #: to the df of a two-group t test (df + 2)
+    group_sizes: tuple[str, str] | None = None
+    #: an effect size printed with the result, if any
+    effect_printed: PrintedEffect | None = None
     aggregate: bool = False
     #: which pattern in patterns/ found the statistic (for debugging and pattern tests)
     pattern: str = ""
@@ -309,6 +327,9 @@ class Recomputed:
     n: float | None = None
     effect: Effect | None = None
     evidence: Evidence | None = None
+    #: the values (absolute) the printed effect size may take given the printed statistic;
+    #: None when no effect is printed or the result does not determine it
+    effect_printed_ranges: tuple[Interval, ...] | None = None
     reason: str | None = None
 
 

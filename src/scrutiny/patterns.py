@@ -22,7 +22,8 @@ else:  # pragma: no cover - exercised on Python 3.10 only
 
 #: kinds of pattern the extractor uses, in the order it uses them
 KINDS = ("statistic", "not-a-result", "other-test", "p-value", "not-significant", "df",
-         "sample-size", "tails-one", "tails-two", "design-within", "design-between")
+         "sample-size", "group-size", "printed-effect", "tails-one", "tails-two", "design-within",
+         "design-between")
 
 _FRAGMENT = regex.compile(r"<<([a-z_]+)>>")
 _FLAGS = regex.VERBOSE | regex.VERSION0
@@ -44,6 +45,8 @@ class Pattern:
     needs_p: bool = False
     must_match: tuple[str, ...] = ()
     must_not_match: tuple[str, ...] = ()
+    #: printed-effect patterns: which effect size they read (d, g, eta2, eta2_partial, ...)
+    measure: str | None = None
     #: lower-case words of which every match contains at least one; when given, a whole-text
     #: search looks only near them (a test checks the examples against them)
     keywords: tuple[str, ...] = ()
@@ -145,6 +148,8 @@ def load_library(folder: str | None = None) -> Library:
                 raise PatternError(f"{where}: kind must be one of {', '.join(KINDS)}")
             if kind == "statistic" and not entry.get("test"):
                 raise PatternError(f"{where}: a statistic pattern needs a test family")
+            if kind == "printed-effect" and not entry.get("measure"):
+                raise PatternError(f"{where}: a printed-effect pattern needs a measure")
             source = _expand(entry["regex"], fragments, where)
             try:
                 compiled = regex.compile(source, _FLAGS)
@@ -161,6 +166,7 @@ def load_library(folder: str | None = None) -> Library:
                 must_match=tuple(entry.get("must_match", ())),
                 must_not_match=tuple(entry.get("must_not_match", ())),
                 keywords=tuple(_keyword(k, where) for k in entry.get("keywords", ())),
+                measure=entry.get("measure"),
             ))
     missing = [kind for kind in KINDS if not any(p.kind == kind for p in patterns)]
     if missing:

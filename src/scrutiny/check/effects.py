@@ -4,8 +4,9 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ..model import Claim, Effect, Recomputed, Settings, Severity
+from ..model import Claim, Effect, Interval, Recomputed, Settings, Severity
 from ..numbers import format_count, format_p
+from ..rounding import UnreadableNumber, intervals_meet, parse_printed
 from . import Context, Finding, check
 from .consistency import describe_statistic
 
@@ -114,4 +115,47 @@ def evidence_favours_null(claim: Claim, recomputed: Recomputed, context: Context
         f"strong evidence against the null.",
         {"bf01": evidence.bf01, "posterior_null": evidence.posterior_null, "p": recomputed.p,
          "n": n},
+    )
+
+
+@check("effect-mismatch", Severity.WARNING,
+       "A printed effect size cannot come from the printed statistic")
+def effect_mismatch(claim: Claim, recomputed: Recomputed, context: Context,
+                    settings: Settings) -> Iterator[Finding]:
+    """An effect size printed with a result that no rounding of the statistic implies.
+
+    The effect is recomputed from the printed statistic and df (Lakens 2013, Frontiers in
+    Psychology 4, 863; Cohen 1988; Rosenthal 1994): d or g from t, r from t or z, partial eta
+    squared and R squared from F, phi and Cramer's V from chi-square with N. Both numbers are
+    read with the rounding rule, and where conventions differ (d of paired data, d of groups of
+    unknown size, g with or without Hedges' correction, the table size behind V) every common
+    convention is allowed, so that only a number none produces is flagged. Eta squared can be
+    smaller than the partial eta squared the F implies, never larger. Signs are not compared
+    (authors orient differences either way). Known causes besides typing errors: an effect
+    size from a different analysis (adjusted for covariates, another contrast) printed beside
+    the test.
+    """
+    printed = claim.effect_printed
+    ranges = recomputed.effect_printed_ranges
+    if printed is None or not ranges:
+        return
+    try:
+        number = parse_printed(printed.value)
+    except UnreadableNumber:
+        return
+    value = Interval(abs(number.value) - number.half_unit, abs(number.value) + number.half_unit)
+    if any(intervals_meet(value, allowed) for allowed in ranges):
+        return
+    if printed.measure == "eta2":
+        implied = (f"{printed.label} of at most {ranges[0].high:.3f} (eta squared cannot exceed "
+                   f"the partial eta squared the F implies)")
+    else:
+        signed = printed.measure in ("d", "g", "r")
+        symbol = f"|{printed.label}|" if signed else printed.label
+        implied = f"{symbol} in " + " or ".join(f"[{r.low:.3f}, {r.high:.3f}]" for r in ranges)
+    yield Finding(
+        f"The printed {printed.label} = {printed.value} cannot come from "
+        f"{describe_statistic(claim)}, which implies {implied}.",
+        {"printed": number.value, "allowed_low": min(r.low for r in ranges),
+         "allowed_high": max(r.high for r in ranges)},
     )

@@ -14,9 +14,15 @@ left empty with the reason.
 from __future__ import annotations
 
 from ..model import Claim, Evidence, Interval, Recomputed, Settings
-from ..rounding import UnreadableNumber, parse_printed, reported_p_interval, statistic_interval
+from ..rounding import (
+    UnreadableNumber,
+    magnitude_interval,
+    parse_printed,
+    reported_p_interval,
+    statistic_interval,
+)
 from .bayes import evidence_for, minimum_bf01, posterior_null
-from .effects import implied_effect, t_design
+from .effects import implied_effect, printed_effect_ranges, t_design
 from .pvalues import (
     NEEDS_DF,
     TWO_SIDED,
@@ -80,19 +86,25 @@ def recompute(claim: Claim, settings: Settings) -> Recomputed:
     two_sided = p_interval(claim.test, values, df)
     one_sided = (Interval(two_sided.low / 2.0, two_sided.high / 2.0)
                  if claim.test in TWO_SIDED else None)
-    effect = evidence = point = None
+    effect = evidence = point = printed_ranges = None
+    group_sizes = _group_sizes(claim)
     if claim.statistic_comparator == "=":
         point = p_value(claim.test, statistic.value, df)
         effect = implied_effect(claim.test, statistic.value, df, n, claim.design_stated,
-                                confidence=settings.confidence, alpha=settings.alpha)
+                                confidence=settings.confidence, alpha=settings.alpha,
+                                group_sizes=group_sizes)
         if claim.test == "r" and abs(statistic.value) >= 1.0:
             evidence = _evidence_unavailable(point, settings, "|r| = 1: no Bayes factor")
         else:
             design = None
             if claim.test == "t":
-                design = t_design(df[0], claim.design_stated)
+                design = t_design(df[0], claim.design_stated, group_sizes)
             elif claim.test == "F" and df[0] == 1:  # the square of a t on df2
-                design = t_design(df[1], claim.design_stated)
+                design = t_design(df[1], claim.design_stated, group_sizes)
+            if claim.effect_printed is not None:
+                printed_ranges = printed_effect_ranges(
+                    claim.test, magnitude_interval(values), df, n, design,
+                    claim.effect_printed.measure, _subscript(claim.effect_printed.label))
             evidence = evidence_for(claim.test, statistic.value, df, n, point, design,
                                     prior_scale=settings.prior_scale,
                                     prior_null=settings.prior_null)
@@ -108,7 +120,24 @@ def recompute(claim: Claim, settings: Settings) -> Recomputed:
         n=n,
         effect=effect,
         evidence=evidence,
+        effect_printed_ranges=printed_ranges,
     )
+
+
+def _group_sizes(claim: Claim) -> tuple[float, float] | None:
+    if claim.group_sizes is None:
+        return None
+    try:
+        first, second = (parse_printed(size).value for size in claim.group_sizes)
+    except UnreadableNumber:
+        return None
+    return first, second
+
+
+def _subscript(label: str) -> str | None:
+    """"z" for a d_z ("d_z", "dz", "d z"), else None."""
+    compact = label.replace("_", "").replace(" ", "").lower()
+    return "z" if compact.endswith("dz") else None
 
 
 __all__ = [

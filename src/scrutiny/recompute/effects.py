@@ -35,7 +35,7 @@ from dataclasses import dataclass
 
 from scipy import special
 
-from ..model import Effect
+from ..model import Effect, Interval
 from ..numbers import format_count
 
 POWER = 0.8
@@ -77,7 +77,8 @@ def t_design(df: float, stated: str | None, group_sizes: tuple[float, float] | N
     if stated == "within":
         return Design("within", df + 1.0, stated=True)
     if group_sizes and abs(sum(group_sizes) - (df + 2.0)) < 0.5:
-        return Design("between", group_sizes[0], group_sizes[1], stated=stated == "between",
+        # two printed group sizes that add up to df + 2 say "two groups" as plainly as words
+        return Design("between", group_sizes[0], group_sizes[1], stated=True,
                       sizes_printed=True)
     return Design("between", (df + 2.0) / 2.0, (df + 2.0) / 2.0, stated=stated == "between")
 
@@ -247,3 +248,75 @@ def implied_effect(test: str, statistic: float, df: tuple[float, ...], n: float 
         high90=high90,
         detectable=detectable_effect(test, df, n, design, alpha),
     )
+
+
+def _hedges_j(df: float) -> float:
+    """Hedges' small-sample correction J = Gamma(df/2) / (sqrt(df/2) Gamma((df-1)/2))."""
+    if df <= 1:
+        return 1.0
+    return math.exp(special.gammaln(df / 2.0) - special.gammaln((df - 1.0) / 2.0)) / math.sqrt(df / 2.0)
+
+
+def printed_effect_ranges(test: str, magnitude: Interval, df: tuple[float, ...], n: float | None,
+                          design: Design | None, measure: str,
+                          subscript: str | None = None) -> tuple[Interval, ...] | None:
+    """The values (in absolute value) a printed effect of `measure` may take, given the range
+    `magnitude` of |statistic| the printed statistic stands for; None when the result does not
+    determine it.
+
+    Where conventions differ, every common one is allowed, so that only a number no convention
+    produces is flagged:
+    * d and g from t (or F(1, df) as t^2): one sample or paired, d_z = t/sqrt(n) or t/sqrt(df)
+      (Lakens 2013 and the effectsize convention); two groups, d = t sqrt(1/n1 + 1/n2), exact
+      when the group sizes are printed, else anything from equal groups (its smallest value)
+      to one group of one; with no design stated, anything from d_z up. A paired "d" without a
+      z subscript may be d_av or d_rm, which need the correlation: not checked. g is d times
+      Hedges' J, or d itself (some software prints the uncorrected value).
+    * r from t: sqrt(t^2 / (t^2 + df)); from z with N: z / sqrt(N).
+    * partial eta squared and R squared from F: F df1 / (F df1 + df2); eta squared can only be
+      smaller (it equals the partial one in a one-way design), so it is checked from above.
+    * phi (and w) from chi-square with N: sqrt(chi2 / N); Cramer's V: sqrt(chi2 / (N m)) with
+      m = min(rows, columns) - 1, any divisor of df up to sqrt(df).
+    """
+    low, high = magnitude.low, magnitude.high
+    if test == "F" and df[0] == 1 and measure in ("d", "g", "r"):
+        test, low, high, df = "t", math.sqrt(low), math.sqrt(high), (df[1],)
+    if test == "t" and measure in ("d", "g"):
+        nu = df[0]
+        if design is not None and design.kind == "within" and design.stated:
+            if subscript != "z":
+                return None
+            bounds = (low / math.sqrt(nu + 1.0), high / math.sqrt(nu))
+        elif design is not None and design.sizes_printed:
+            bounds = (low * design.scale, high * design.scale)
+        elif design is not None and design.stated:
+            bounds = (2.0 * low / math.sqrt(nu + 2.0), high * math.sqrt(1.0 + 1.0 / (nu + 1.0)))
+        else:
+            bounds = (low / math.sqrt(nu + 1.0), high * math.sqrt(1.0 + 1.0 / (nu + 1.0)))
+        if measure == "g":
+            bounds = (bounds[0] * _hedges_j(nu), bounds[1])
+        return (Interval(*bounds),)
+    if measure == "r":
+        if test == "t":
+            nu = df[0]
+            return (Interval(low / math.sqrt(low * low + nu), high / math.sqrt(high * high + nu)),)
+        if test == "z" and n:
+            return (Interval(low / math.sqrt(n), min(high / math.sqrt(n), 1.0)),)
+        return None
+    if measure in ("eta2_partial", "R2", "eta2"):
+        if test == "t":
+            top = high * high / (high * high + df[0])
+            bottom = low * low / (low * low + df[0])
+        elif test == "F":
+            df1, df2 = df
+            top = high * df1 / (high * df1 + df2)
+            bottom = low * df1 / (low * df1 + df2)
+        else:
+            return None
+        return (Interval(0.0 if measure == "eta2" else bottom, top),)
+    if measure in ("phi", "V") and test == "chi2" and n:
+        divisors = [1] if measure == "phi" else [m for m in range(1, int(math.isqrt(int(df[0]))) + 1)
+                                                 if df[0] % m == 0] or [1]
+        return tuple(Interval(math.sqrt(low / (n * m)), math.sqrt(high / (n * m)))
+                     for m in divisors)
+    return None

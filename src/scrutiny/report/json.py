@@ -117,6 +117,11 @@ def claim_json(result: ClaimResult) -> dict[str, Any]:
         "status": result.status.value,
         "reason": result.reason,
         "effect": _effect(recomputed.effect),
+        "effect_printed": ({"measure": claim.effect_printed.measure,
+                            "value": claim.effect_printed.value,
+                            "label": claim.effect_printed.label}
+                           if claim.effect_printed else None),
+        "group_sizes": list(claim.group_sizes) if claim.group_sizes else None,
         "evidence": _evidence(recomputed.evidence),
         "flags": [
             {
