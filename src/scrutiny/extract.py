@@ -24,6 +24,7 @@ strings in a Claim are exactly as printed and its offsets point into the file's 
 from __future__ import annotations
 
 import re
+import sys
 from bisect import bisect_left, bisect_right
 from dataclasses import dataclass
 from typing import Iterator
@@ -349,7 +350,9 @@ def _claim_at(document: Document, library: Library, boundaries: _Boundaries,
         if match.group(group) is None:
             return None
         start, end = match.span(group)
-        return document.text[document.original_offset(start):document.original_offset(end)]
+        # interned: manuscripts print the same short strings ("28", ".05") again and again
+        return sys.intern(document.text[document.original_offset(start):
+                                        document.original_offset(end)])
 
     df = tuple(d for d in (printed(head, "df1"), printed(head, "df2")) if d is not None)
     n = printed(head, "n")

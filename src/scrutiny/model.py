@@ -267,8 +267,9 @@ class Effect:
     """An effect size implied by a Claim, with the assumption it rests on.
 
     `measure` is "d", "d_z", "r", "eta2_partial" or "w"; `low`/`high` bound its `confidence`
-    interval and `low90`/`high90` its 90% interval (the one an equivalence test at .05 uses);
-    `detectable` is the effect the design detects with 80% power at the chosen alpha.
+    interval. For a significant result `low90`/`high90` bound its 90% interval (the one an
+    equivalence test at .05 uses); for a non-significant one `detectable` is the effect the
+    design detects with 80% power at the chosen alpha (its sensitivity).
     """
 
     measure: str
@@ -320,7 +321,8 @@ class Recomputed:
 
     p: float | None = None
     p_interval: Interval | None = None
-    p_interval_one_sided: Interval | None = None
+    #: the test is two-sided (t, z, r), so that a one-sided reading halves its p
+    two_sided: bool = False
     statistic_interval: Interval | None = None
     reported_p_interval: Interval | None = None
     df: tuple[float, ...] = ()
@@ -331,6 +333,13 @@ class Recomputed:
     #: None when no effect is printed or the result does not determine it
     effect_printed_ranges: tuple[Interval, ...] | None = None
     reason: str | None = None
+
+    @property
+    def p_interval_one_sided(self) -> Interval | None:
+        """The p interval of a one-sided test: half the two-sided one (t, z and r only)."""
+        if not self.two_sided or self.p_interval is None:
+            return None
+        return Interval(self.p_interval.low / 2.0, self.p_interval.high / 2.0)
 
 
 @dataclass(frozen=True, slots=True)

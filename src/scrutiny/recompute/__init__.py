@@ -84,15 +84,13 @@ def recompute(claim: Claim, settings: Settings) -> Recomputed:
 
     values = statistic_interval(claim.statistic, claim.statistic_comparator, low, high)
     two_sided = p_interval(claim.test, values, df)
-    one_sided = (Interval(two_sided.low / 2.0, two_sided.high / 2.0)
-                 if claim.test in TWO_SIDED else None)
     effect = evidence = point = printed_ranges = None
     group_sizes = _group_sizes(claim)
     if claim.statistic_comparator == "=":
         point = p_value(claim.test, statistic.value, df)
         effect = implied_effect(claim.test, statistic.value, df, n, claim.design_stated,
                                 confidence=settings.confidence, alpha=settings.alpha,
-                                group_sizes=group_sizes)
+                                group_sizes=group_sizes, significant=point < settings.alpha)
         if claim.test == "r" and abs(statistic.value) >= 1.0:
             evidence = _evidence_unavailable(point, settings, "|r| = 1: no Bayes factor")
         else:
@@ -113,7 +111,7 @@ def recompute(claim: Claim, settings: Settings) -> Recomputed:
     return Recomputed(
         p=point,
         p_interval=two_sided,
-        p_interval_one_sided=one_sided,
+        two_sided=claim.test in TWO_SIDED,
         statistic_interval=values,
         reported_p_interval=reported,
         df=df,

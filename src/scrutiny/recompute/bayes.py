@@ -23,6 +23,7 @@ With a prior probability pi0 of the null, the posterior probability of the null 
 from __future__ import annotations
 
 import math
+import sys
 
 import numpy
 
@@ -31,8 +32,10 @@ from ..numbers import format_count
 
 #: grid in u = ln g for the JZS integral; the integrand is smooth in u and negligible outside
 #: [-14, 50] (the inverse-gamma prior on g vanishes double-exponentially below, and the
-#: integrand falls as exp(-u) above), so the trapezoidal rule converges geometrically
-_LOG_G = numpy.linspace(-14.0, 50.0, 1281)
+#: integrand falls as exp(-u) above), so the trapezoidal rule converges geometrically: 321
+#: points (a step of 0.2) agree with 1281 points to 2e-14 over t from 0 to 50 and n from 2 to
+#: 10^6, and with 161 points to 2e-10
+_LOG_G = numpy.linspace(-14.0, 50.0, 321)
 _STEP = _LOG_G[1] - _LOG_G[0]
 _G = numpy.exp(_LOG_G)
 # ln of the inverse-gamma(1/2, 1/2) density of g, times the Jacobian g of u = ln g
@@ -113,7 +116,8 @@ def evidence_for(test: str, statistic: float, df: tuple[float, ...], n: float | 
             assumption = f"F(1, df) as the t = sqrt(F) of {assumption}"
         bf01 = 1.0 / jzs_bf10(t, n_effective, nu, prior_scale)
         return Evidence(**base, bf01=bf01, method="jzs", prior_scale=prior_scale,
-                        posterior_null=posterior_null(bf01, prior_null), assumption=assumption)
+                        posterior_null=posterior_null(bf01, prior_null),
+                        assumption=sys.intern(assumption))
     if test == "r":
         nu = df[0]
         t = statistic * math.sqrt(nu / (1.0 - statistic**2)) if abs(statistic) < 1 else math.inf

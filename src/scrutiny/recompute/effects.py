@@ -31,6 +31,7 @@ the chosen alpha (two-sided for t, z and r): what a non-significant result can r
 from __future__ import annotations
 
 import math
+import sys
 from dataclasses import dataclass
 
 from scipy import special
@@ -87,6 +88,11 @@ def _critical_z(confidence: float) -> float:
     return float(special.ndtri(0.5 + confidence / 2.0))
 
 
+#: a probability error of the distribution function at which a limit counts as found: the
+#: noncentrality is then within about 1e-11 of its value, far below any printed digit
+_GOOD_ENOUGH = 1e-13
+
+
 def _refine(cdf, target: float, guess: float, floor: float = -math.inf) -> float:
     """The noncentrality at which `cdf` (decreasing in it) equals `target`, refined from the
     `guess` of a cdflib inverse by secant steps; the guess itself where no step improves on it
@@ -96,7 +102,7 @@ def _refine(cdf, target: float, guess: float, floor: float = -math.inf) -> float
     if not math.isfinite(f0):
         return guess
     best, best_error = x0, abs(f0)
-    if best_error <= 1e-15:  # the inverse was exact already (chndtrinc mostly is)
+    if best_error <= _GOOD_ENOUGH:  # the inverse was exact already (chndtrinc mostly is)
         return guess
     x1 = guess + 1e-4 * max(abs(guess), 1e-2)
     for _ in range(10):
@@ -105,7 +111,7 @@ def _refine(cdf, target: float, guess: float, floor: float = -math.inf) -> float
             break
         if abs(f1) < best_error:
             best, best_error = x1, abs(f1)
-        if f1 == f0 or best_error == 0.0:
+        if f1 == f0 or best_error <= _GOOD_ENOUGH:
             break
         x0, f0, x1 = x1, f1, max(x1 - f1 * (x1 - x0) / (f1 - f0), floor)
         if not math.isfinite(x1) or abs(x1 - x0) <= 1e-15 * max(1.0, abs(x1)):
@@ -205,11 +211,16 @@ def detectable_effect(test: str, df: tuple[float, ...], n: float | None, design:
 
 def implied_effect(test: str, statistic: float, df: tuple[float, ...], n: float | None,
                    design_stated: str | None, *, confidence: float = 0.95, alpha: float = 0.05,
-                   group_sizes: tuple[float, float] | None = None) -> Effect | None:
+                   group_sizes: tuple[float, float] | None = None,
+                   significant: bool | None = None) -> Effect | None:
     """The effect size a result implies, its `confidence` interval and 90% interval (for
     equivalence tests), the effect detectable with 80% power, and the assumption behind them.
 
-    None when the result does not determine an effect (chi-square or z without N).
+    The 90% interval matters for significant results (is the effect equivalent to zero?) and
+    the detectable effect for non-significant ones (what could the study have found?); when
+    `significant` is given, only the one that matters is computed (each costs an inversion of
+    a noncentral distribution). None when the result does not determine an effect (chi-square
+    or z without N).
     """
     design = None
     if test == "t":
@@ -235,18 +246,22 @@ def implied_effect(test: str, statistic: float, df: tuple[float, ...], n: float 
     else:
         return None
     low, high = _interval(test, statistic, df, n, design, confidence)
-    low90, high90 = _interval(test, statistic, df, n, design, 0.90)
+    low90 = high90 = detectable = None
+    if significant is not False:
+        low90, high90 = _interval(test, statistic, df, n, design, 0.90)
+    if significant is not True:
+        detectable = detectable_effect(test, df, n, design, alpha)
     return Effect(
         measure=measure,
         value=value,
-        assumption=assumption,
+        assumption=sys.intern(assumption),  # shared by every result of the same design
         n=size,
         low=low,
         high=high,
         confidence=confidence,
         low90=low90,
         high90=high90,
-        detectable=detectable_effect(test, df, n, design, alpha),
+        detectable=detectable,
     )
 
 
