@@ -14,6 +14,7 @@ import pytest
 import regex
 
 from scrutiny.extract import PARAGRAPH_REACH, find_claims, statistic_heads
+from scrutiny.model import TEST_FAMILIES
 from scrutiny.ingest import document_from_text
 from scrutiny.patterns import load_library
 
@@ -97,8 +98,9 @@ def test_case_table_is_well_formed():
 
 @pytest.mark.parametrize("case", CASES, ids=[_case_id(case) for case in CASES])
 def test_extraction_case(case):
+    # the table lists test results; means, percentages and estimates have tests of their own
     text = case["text"]
-    claims = find_claims(document_from_text(text))
+    claims = [c for c in find_claims(document_from_text(text)) if c.test in TEST_FAMILIES]
     expected = [_expected(entry) for entry in case.get("claims", [])]
     assert [_found(claim) for claim in claims] == expected
 

@@ -44,6 +44,8 @@ class Status(str, enum.Enum):
 
 #: Test families the extractor knows; the keys are the JSON contract's `test` values.
 TEST_FAMILIES = ("t", "F", "chi2", "r", "z")
+#: Other kinds of claim: descriptive statistics and estimates.
+OTHER_KINDS = ("mean", "percent", "estimate")
 
 
 @dataclass(frozen=True, slots=True)
@@ -134,6 +136,9 @@ class Document:
     def original_offset(self, normalised_offset: int) -> int:
         return self.offset_map.to_original(normalised_offset)
 
+    def normalised_offset(self, original_offset: int) -> int:
+        return self.offset_map.to_normalised(original_offset)
+
     def location(self, start: int, end: int) -> Location:
         """Location of the original span [start, end)."""
         return self.offset_map.location(start, end)
@@ -173,6 +178,13 @@ class OffsetMap:
             return normalised_offset
         i = bisect_right(self._norm_points, normalised_offset) - 1
         return self._orig_points[i] + (normalised_offset - self._norm_points[i])
+
+    def to_normalised(self, original_offset: int) -> int:
+        """The normalised offset of an original offset (the first one that maps to it)."""
+        if len(self._norm_points) == 1:
+            return original_offset
+        i = bisect_right(self._orig_points, original_offset) - 1
+        return self._norm_points[i] + (original_offset - self._orig_points[i])
 
     def location(self, start: int, end: int) -> Location:
         segment = self._segments[bisect_right(self._segment_starts, start) - 1]
@@ -215,9 +227,57 @@ class PrintedEffect:
 
 
 @dataclass(frozen=True, slots=True)
-class Claim:
-    """One reported test result, exactly as the text prints it.
+class Descriptive:
+    """A mean printed with its SD and group size ("M = 3.48, SD = 1.21, n = 49"), as printed.
 
+    `integer_cue` holds the words that say the measure is integer-valued ("7-point scale",
+    "number of errors"), `items` the number of items of a scale when printed; both decide
+    whether the granularity tests (GRIM, GRIMMER) apply.
+    """
+
+    mean: str
+    sd: str | None = None
+    n: str | None = None
+    items: str | None = None
+    integer_cue: str | None = None
+
+
+@dataclass(frozen=True, slots=True)
+class Proportion:
+    """A percentage printed with its count and base ("45.3% (38/84)"), as printed."""
+
+    percent: str
+    count: str
+    base: str
+    weighted: bool = False
+
+
+@dataclass(frozen=True, slots=True)
+class Estimate:
+    """An estimate printed with a confidence interval or a standard error, as printed.
+
+    `label` is the symbol ("OR", "HR", "d", "B", "b", "β"); `ratio` is True for odds, risk,
+    hazard and rate ratios, whose intervals are symmetric on the log scale; `level` is the
+    confidence level printed ("95").
+    """
+
+    label: str
+    value: str
+    low: str | None = None
+    high: str | None = None
+    level: str | None = None
+    se: str | None = None
+    ratio: bool = False
+
+
+@dataclass(frozen=True, slots=True)
+class Claim:
+    """One reported result, exactly as the text prints it.
+
+    `test` is a test family ("t", "F", "chi2", "r", "z") or another kind of claim: "mean" (a
+    mean with SD and n, in `descriptive`), "percent" (a percentage with its count and base, in
+    `proportion`) or "estimate" (an estimate with a confidence interval or a standard error,
+    in `estimate`); `statistic` then holds the mean, the percentage or the estimate.
     Numbers stay strings so that their rounding can be reasoned about: "2.450" and "2.45" are
     different claims. `statistic_comparator` is "=" for a result and "<", ">", "<=", ">=" for a
     bound ("F < 1", "all ts(171) >= 3.19"). `tails_stated` is "one" or "two" when the sentence
@@ -242,6 +302,13 @@ class Claim:
     group_sizes: tuple[str, str] | None = None
     #: an effect size printed with the result, if any
     effect_printed: PrintedEffect | None = None
+    #: the printed parts of claims that are not test statistics (test "mean", "percent",
+    #: "estimate"), and a coefficient and its SE printed before a t or z
+    descriptive: Descriptive | None = None
+    proportion: Proportion | None = None
+    estimate: Estimate | None = None
+    #: N printed for the sample in the sentence (or paragraph) of a test result
+    sample_size: str | None = None
     aggregate: bool = False
     #: which pattern in patterns/ found the statistic (for debugging and pattern tests)
     pattern: str = ""
@@ -308,6 +375,29 @@ class Evidence:
 
 
 @dataclass(frozen=True, slots=True)
+class Granularity:
+    """The outcome of a granularity test: possible or not, or not testable (with why)."""
+
+    testable: bool
+    consistent: bool | None
+    reason: str = ""
+    #: a witness: an integer total (GRIM) or (total, sum of squares) (GRIMMER) that works
+    witness: tuple[int, ...] | None = None
+
+
+@dataclass(frozen=True, slots=True)
+class IntervalFacts:
+    """What an estimate and its interval imply."""
+
+    p: Interval                     # p-values the printed numbers allow
+    statistic: Interval             # |estimate| / SE over the rounding box (normal scale)
+    excludes_null: bool | None      # True / False; None when the rounding leaves it open
+    centre_offset: float            # how far the estimate sits from the interval's middle,
+                                    # in units of the width's rounding slack (<= 1 is fine)
+    ratio: bool
+
+
+@dataclass(frozen=True, slots=True)
 class Recomputed:
     """Numbers derived from a Claim; no text, no judgement.
 
@@ -332,6 +422,14 @@ class Recomputed:
     #: the values (absolute) the printed effect size may take given the printed statistic;
     #: None when no effect is printed or the result does not determine it
     effect_printed_ranges: tuple[Interval, ...] | None = None
+    #: means and percentages: the granularity tests (see recompute.granularity)
+    grim: Granularity | None = None
+    grimmer: Granularity | None = None
+    percentage: Granularity | None = None
+    #: estimates with a confidence interval: what the interval implies
+    interval_facts: IntervalFacts | None = None
+    #: a coefficient and its SE: |b| / SE over their rounding
+    coefficient_statistic: Interval | None = None
     reason: str | None = None
 
     @property
@@ -395,6 +493,9 @@ class Settings:
     sesoi_r: float = 0.1
     sesoi_eta2: float = 0.01
     sesoi_w: float = 0.1
+    #: treat every mean as a mean of integer responses (GRIM, GRIMMER) even where the text
+    #: does not say so
+    integer_scales: bool = False
     #: Bayesian evidence: Cauchy prior scale on the standardised effect, prior P(H0)
     prior_scale: float = 0.7071067811865476
     prior_null: float = 0.5
@@ -430,6 +531,7 @@ class Settings:
                 "eta2_partial": self.sesoi_eta2,
                 "w": self.sesoi_w,
             },
+            "integer_scales": self.integer_scales,
             "prior_scale": self.prior_scale,
             "prior_null": self.prior_null,
             "confidence": self.confidence,

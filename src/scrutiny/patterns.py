@@ -23,7 +23,8 @@ else:  # pragma: no cover - exercised on Python 3.10 only
 #: kinds of pattern the extractor uses, in the order it uses them
 KINDS = ("statistic", "not-a-result", "other-test", "p-value", "not-significant", "df",
          "sample-size", "group-size", "printed-effect", "tails-one", "tails-two", "design-within",
-         "design-between")
+         "design-between", "descriptive", "proportion", "interval-estimate", "coefficient",
+         "integer-cue", "item-count", "se-cue", "weighted-cue", "total-sample")
 
 _FRAGMENT = regex.compile(r"<<([a-z_]+)>>")
 _FLAGS = regex.VERBOSE | regex.VERSION0

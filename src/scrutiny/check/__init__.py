@@ -16,7 +16,7 @@ import inspect
 from dataclasses import dataclass, field
 from typing import Callable, Iterable, Mapping
 
-from ..model import Claim, Flag, Recomputed, Settings, Severity, Status
+from ..model import TEST_FAMILIES, Claim, Flag, Recomputed, Settings, Severity, Status
 
 
 @dataclass(frozen=True)
@@ -105,6 +105,8 @@ def verdict(claim: Claim, recomputed: Recomputed,
         return Status.INCONSISTENT, None
     if recomputed.reason:
         return Status.UNCHECKED, recomputed.reason
+    if claim.test not in TEST_FAMILIES:
+        return Status.CONSISTENT, None  # what could be checked (granularity, interval) was
     if claim.p is None:
         return Status.UNCHECKED, "no p-value printed"
     if recomputed.reported_p_interval is None:
@@ -123,6 +125,6 @@ def _fits_two_sided(recomputed: Recomputed) -> bool:
 
 
 # Modules that register checks; imported for their side effect.
-from . import consistency, effects  # noqa: E402,F401
+from . import consistency, descriptives, effects, estimates  # noqa: E402,F401
 
 __all__ = ["Check", "Context", "Finding", "REGISTRY", "check", "run_checks", "verdict"]

@@ -5,7 +5,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Iterator
 
-from ..model import Claim, Interval, Recomputed, Settings, Severity
+from ..model import TEST_FAMILIES, Claim, Interval, Recomputed, Settings, Severity
 from ..numbers import format_p, format_p_interval
 from ..rounding import UnreadableNumber, intervals_meet, parse_printed
 from . import Context, Finding, check
@@ -71,7 +71,7 @@ def _range_text(claim: Claim, interval: Interval, tails: str) -> str:
 
 
 @check("p-mismatch", Severity.ERROR, "Reported p cannot come from the printed statistic",
-       marks_inconsistent=True)
+       applies_to=TEST_FAMILIES, marks_inconsistent=True)
 def p_mismatch(claim: Claim, recomputed: Recomputed, context: Context,
                settings: Settings) -> Iterator[Finding]:
     """The p-value implied by the statistic disagrees with the printed p beyond rounding.
@@ -118,7 +118,7 @@ def _recomputed_side(interval: Interval, alpha: float) -> str | None:
 
 @check("decision-flip", Severity.ERROR,
        "The reported and the recomputed p lie on different sides of alpha",
-       marks_inconsistent=True)
+       applies_to=TEST_FAMILIES, marks_inconsistent=True)
 def decision_flip(claim: Claim, recomputed: Recomputed, context: Context,
                   settings: Settings) -> Iterator[Finding]:
     """An inconsistent p-value that changes the conclusion at the chosen alpha.
@@ -212,7 +212,7 @@ def _number(printed: str | None) -> float | None:
 
 
 @check("impossible-value", Severity.ERROR, "A printed number is outside its possible range",
-       marks_inconsistent=True)
+       applies_to=TEST_FAMILIES, marks_inconsistent=True)
 def impossible_value(claim: Claim, recomputed: Recomputed, context: Context,
                      settings: Settings) -> Iterator[Finding]:
     """A number that no data can produce.

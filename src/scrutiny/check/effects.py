@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from typing import Iterator
 
-from ..model import Claim, Effect, Interval, Recomputed, Settings, Severity
+from ..model import TEST_FAMILIES, Claim, Effect, Interval, Recomputed, Settings, Severity
 from ..numbers import format_count, format_p
 from ..rounding import UnreadableNumber, intervals_meet, parse_printed
 from . import Context, Finding, check
@@ -29,7 +29,8 @@ def _equivalent_to_zero(effect: Effect, threshold: float) -> bool:
 
 
 @check("negligible-effect", Severity.WARNING,
-       "Significant, but the implied effect is below the smallest effect of interest")
+       "Significant, but the implied effect is below the smallest effect of interest",
+       applies_to=TEST_FAMILIES)
 def negligible_effect(claim: Claim, recomputed: Recomputed, context: Context,
                       settings: Settings) -> Iterator[Finding]:
     """A significant result whose implied effect size is negligible.
@@ -79,7 +80,8 @@ def negligible_effect(claim: Claim, recomputed: Recomputed, context: Context,
 
 
 @check("evidence-favours-null", Severity.WARNING,
-       "Significant, yet the Bayes factor favours the null hypothesis")
+       "Significant, yet the Bayes factor favours the null hypothesis",
+       applies_to=TEST_FAMILIES)
 def evidence_favours_null(claim: Claim, recomputed: Recomputed, context: Context,
                           settings: Settings) -> Iterator[Finding]:
     """A result significant at alpha whose Bayes factor favours the point null (BF01 > 1).
@@ -119,7 +121,8 @@ def evidence_favours_null(claim: Claim, recomputed: Recomputed, context: Context
 
 
 @check("effect-mismatch", Severity.WARNING,
-       "A printed effect size cannot come from the printed statistic")
+       "A printed effect size cannot come from the printed statistic",
+       applies_to=TEST_FAMILIES)
 def effect_mismatch(claim: Claim, recomputed: Recomputed, context: Context,
                     settings: Settings) -> Iterator[Finding]:
     """An effect size printed with a result that no rounding of the statistic implies.

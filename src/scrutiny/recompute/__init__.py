@@ -13,6 +13,8 @@ left empty with the reason.
 
 from __future__ import annotations
 
+import dataclasses
+
 from ..model import Claim, Evidence, Interval, Recomputed, Settings
 from ..rounding import (
     UnreadableNumber,
@@ -23,6 +25,12 @@ from ..rounding import (
 )
 from .bayes import evidence_for, minimum_bf01, posterior_null
 from .effects import implied_effect, printed_effect_ranges, t_design
+from .estimates import (
+    coefficient_statistic,
+    recompute_estimate,
+    recompute_mean,
+    recompute_percent,
+)
 from .pvalues import (
     NEEDS_DF,
     TWO_SIDED,
@@ -51,6 +59,22 @@ def _evidence_unavailable(p: float | None, settings: Settings, reason: str) -> E
 
 def recompute(claim: Claim, settings: Settings) -> Recomputed:
     """Everything scrutiny can derive from one Claim; `reason` says what could not be."""
+    if claim.test == "mean":
+        return recompute_mean(claim, settings)
+    if claim.test == "percent":
+        return recompute_percent(claim, settings)
+    if claim.test == "estimate":
+        return recompute_estimate(claim, settings)
+    recomputed = _recompute_test(claim, settings)
+    if claim.estimate is not None and claim.estimate.low is not None:
+        # an interval printed with the test ("r = .19, 95% CI [-.11, .47], p = .21")
+        facts = recompute_estimate(claim, settings).interval_facts
+        if facts is not None:
+            recomputed = dataclasses.replace(recomputed, interval_facts=facts)
+    return recomputed
+
+
+def _recompute_test(claim: Claim, settings: Settings) -> Recomputed:
     reported = None
     if claim.p is not None:
         try:
@@ -119,6 +143,7 @@ def recompute(claim: Claim, settings: Settings) -> Recomputed:
         effect=effect,
         evidence=evidence,
         effect_printed_ranges=printed_ranges,
+        coefficient_statistic=coefficient_statistic(claim),
     )
 
 

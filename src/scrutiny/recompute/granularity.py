@@ -20,23 +20,11 @@ uses the closed interval of half a unit around the printed value.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
-
+from ..model import Granularity
 from ..rounding import PrintedNumber
 
 #: a relative slack for floating-point error in the interval ends (not a tolerance on data)
 _SLACK = 1e-9
-
-
-@dataclass(frozen=True)
-class Granularity:
-    """The outcome of a granularity test: possible or not, or not testable (with why)."""
-
-    testable: bool
-    consistent: bool | None
-    reason: str = ""
-    #: a witness: an integer total (GRIM) or (total, sum of squares) (GRIMMER) that works
-    witness: tuple[int, ...] | None = None
 
 
 def _totals(mean: PrintedNumber, count: int) -> list[int]:

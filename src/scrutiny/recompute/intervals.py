@@ -19,28 +19,14 @@ from __future__ import annotations
 
 import itertools
 import math
-from dataclasses import dataclass
-
 from scipy import special
 
-from ..model import Interval
+from ..model import Interval, IntervalFacts
 from ..rounding import PrintedNumber
 
 #: degrees of freedom considered for an interval of unknown origin: normal (inf) down to this
 MIN_DF = 10.0
 _DF_GRID = (math.inf, 120.0, 60.0, 30.0, 20.0, MIN_DF)
-
-
-@dataclass(frozen=True)
-class IntervalFacts:
-    """What an estimate and its interval imply."""
-
-    p: Interval                     # p-values the printed numbers allow
-    statistic: Interval             # |estimate| / SE over the rounding box (normal scale)
-    excludes_null: bool | None      # True / False; None when the rounding leaves it open
-    centre_offset: float            # how far the estimate sits from the interval's middle,
-                                    # in units of the width's rounding slack (<= 1 is fine)
-    ratio: bool
 
 
 def _limits(number: PrintedNumber) -> tuple[float, float]:

@@ -37,6 +37,14 @@ def _printed_number(printed: str | None) -> float | int | None:
         return None
 
 
+def _parts(record: Any) -> dict[str, Any] | None:
+    """A small record of printed strings or verdicts as a JSON object (null for None)."""
+    if record is None:
+        return None
+    return {name: (list(value) if isinstance(value, tuple) else value)
+            for name, value in ((name, getattr(record, name)) for name in record.__slots__)}
+
+
 def _effect(effect: Effect | None) -> dict[str, Any] | None:
     if effect is None:
         return None
@@ -122,6 +130,22 @@ def claim_json(result: ClaimResult) -> dict[str, Any]:
                             "label": claim.effect_printed.label}
                            if claim.effect_printed else None),
         "group_sizes": list(claim.group_sizes) if claim.group_sizes else None,
+        "sample_size": _printed_number(claim.sample_size),
+        "descriptive": _parts(claim.descriptive),
+        "proportion": _parts(claim.proportion),
+        "estimate": _parts(claim.estimate),
+        "granularity": ({name: _parts(getattr(recomputed, name))
+                         for name in ("grim", "grimmer", "percentage")}
+                        if claim.test in ("mean", "percent") else None),
+        "interval": ({"p_low": _number(facts.p.low), "p_high": _number(facts.p.high),
+                      "statistic_low": _number(facts.statistic.low),
+                      "statistic_high": _number(facts.statistic.high),
+                      "excludes_null": facts.excludes_null,
+                      "centre_offset": _number(facts.centre_offset)}
+                     if (facts := recomputed.interval_facts) is not None else None),
+        "coefficient_statistic": ({"low": _number(recomputed.coefficient_statistic.low),
+                                   "high": _number(recomputed.coefficient_statistic.high)}
+                                  if recomputed.coefficient_statistic is not None else None),
         "evidence": _evidence(recomputed.evidence),
         "flags": [
             {

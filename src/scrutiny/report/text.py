@@ -11,7 +11,7 @@ from rich.text import Text
 
 from ..check.consistency import describe_p
 from ..check.effects import LABELS
-from ..model import ClaimResult, DocumentResult, Run, Severity, Status
+from ..model import TEST_FAMILIES, ClaimResult, DocumentResult, Run, Severity, Status
 from ..numbers import format_p, format_p_interval
 from . import CAUTION, Summary
 
@@ -51,9 +51,28 @@ def _format_bayes_factor(value: float) -> str:
     return f"{value:.3g}"
 
 
+def _granularity(name: str, verdict) -> str | None:
+    if verdict is None:
+        return None
+    if not verdict.testable:
+        return f"{name}: not testable"
+    return f"{name}: {'possible' if verdict.consistent else 'impossible'}"
+
+
 def _evidence(result: ClaimResult, alpha: float) -> str:
     """Compact effect and evidence: "d = 0.89 [0.13, 1.64], BF01 = 0.34"."""
-    effect, evidence = result.recomputed.effect, result.recomputed.evidence
+    recomputed = result.recomputed
+    if result.claim.test in ("mean", "percent"):
+        parts = [_granularity("GRIM", recomputed.grim), _granularity("GRIMMER", recomputed.grimmer),
+                 _granularity("count/base", recomputed.percentage)]
+        return ", ".join(part for part in parts if part) or "-"
+    if recomputed.interval_facts is not None:
+        facts = recomputed.interval_facts
+        return f"p from CI in {format_p_interval(facts.p.low, facts.p.high)}"
+    if result.claim.test == "estimate" and recomputed.coefficient_statistic is not None:
+        statistic = recomputed.coefficient_statistic
+        return f"|b| / SE in [{statistic.low:.2f}, {statistic.high:.2f}]"
+    effect, evidence = recomputed.effect, recomputed.evidence
     parts = []
     if effect is not None:
         text = f"{LABELS[effect.measure]} = {effect.value:.2f}"
@@ -111,8 +130,10 @@ def _document(console: Console, document: DocumentResult, alpha: float) -> None:
     table.add_column("status", ratio=1)
     table.add_column("flags", ratio=1, overflow="fold")
     for result in document.claims:
+        reported = describe_p(result.claim) if result.claim.p is not None or \
+            result.claim.test in TEST_FAMILIES else "-"
         table.add_row(result.id, _where(result), " ".join(result.claim.text.split()),
-                      describe_p(result.claim), _recomputed(result),
+                      reported, _recomputed(result),
                       _evidence(result, alpha), _status(result), _flags(result))
     console.print(table)
     messages = Table(show_header=False, show_edge=False, box=None, pad_edge=False,

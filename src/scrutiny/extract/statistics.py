@@ -1,4 +1,4 @@
-"""extract: find every reported test result (a `Claim`) in a `Document`.
+"""Test results (t, F, chi-square, r, z) and what is printed with them.
 
 How a result is found:
 
@@ -25,47 +25,22 @@ from __future__ import annotations
 
 import re
 import sys
-from bisect import bisect_left, bisect_right
-from dataclasses import dataclass
-from typing import Iterator
 
 import regex
 
-from .model import Claim, Document, PrintedEffect, PValue
-from .patterns import Library, Pattern, load_library
+from ..model import Claim, Document, PrintedEffect, PValue
+from ..patterns import Library
+from .context import PARAGRAPH_REACH, WHITESPACE, Boundaries, first, last
 
 #: how far after a statistic its p-value may be printed
 WINDOW = 250
-#: how far from a statistic, within its paragraph, a mention of tails or design still counts
-PARAGRAPH_REACH = 1500
 
 _COMPARATORS = {
     "=": "=", "<": "<", ">": ">", "≤": "<=", "≥": ">=",
     "<=": "<=", "=<": "<=", ">=": ">=", "=>": ">=",
 }
 
-# A sentence ends at ".", "!" or "?" followed by white space and a capital or an opening
-# bracket, unless the full stop ends a common abbreviation; a blank line ends it too.
-# (The pattern starts with the punctuation rather than a lookbehind: the regex engine can then
-# skip quickly to the few places where a sentence may end.)
-_SENTENCE_BREAK = regex.compile(
-    r"""
-    [.!?] ["'”’)]?
-    (?<! \b (?: al | vs | e\.g | i\.e | cf | Fig | Figs | Eq | Eqs | Tab | No | approx | ca
-              | resp | Dr | Mr | Ms | Mrs | St | Ref | Refs | Vol | Suppl | et | viz ) \. ["'”’)]? )
-    \s+ (?= [A-Z(\["“‘] )
-    | \n [ \t]* \n \s*
-    """,
-    regex.VERBOSE,
-)
-_PARAGRAPH_BREAK = regex.compile(r"\n[ \t]*\n\s*")
-#: cues read from the words around a result: cue -> ((pattern kind, value), ...)
-_CUES = {
-    "tails": (("tails-one", "one"), ("tails-two", "two")),
-    "design": (("design-within", "within"), ("design-between", "between")),
-}
 _ALL_BEFORE = regex.compile(r"(?i:\ball|\bboth|\beach)\s+$")
-_WHITESPACE = regex.compile(r"\s+")
 _ONLY_SEPARATORS = regex.compile(r"[\s,;]*")
 #: how far before a statistic its degrees of freedom may be printed ("df = 2, 87, F = ...")
 _DF_BEFORE = 30
@@ -80,107 +55,12 @@ def _df_value(printed: str) -> float | None:
         return None
 
 
-def _comparator(printed: str) -> str:
+def comparator(printed: str) -> str:
     compact = printed.replace(" ", "")
     if compact in ("=<", "=>") and " " in printed:
         # "p = < .001" printed with a space is "p < .001"
         return "<" if compact == "=<" else ">"
     return _COMPARATORS.get(compact, compact)
-
-
-#: how far from one of its keywords a match of a keyword pattern may start or end
-_KEYWORD_REACH = 80
-
-
-def _matches_near_keywords(pattern: Pattern, text: str,
-                           lowered: bytes | None) -> Iterator[regex.Match]:
-    """Every match of `pattern` in `text`, searching only around the pattern's keywords.
-
-    Finding a literal word is far cheaper than running a case-insensitive pattern over a whole
-    manuscript, and cue words are rare. `lowered` is the text as lower-case ASCII bytes, offset
-    for offset; where a pattern has no keywords (or `lowered` is None) the whole text is
-    searched.
-    """
-    if lowered is None or not pattern.keywords:
-        yield from pattern.compiled.finditer(text)
-        return
-    windows = []
-    for keyword in pattern.keywords:
-        literal = keyword.encode("ascii")
-        found = lowered.find(literal)
-        while found != -1:
-            windows.append((max(0, found - _KEYWORD_REACH),
-                            found + len(literal) + _KEYWORD_REACH))
-            found = lowered.find(literal, found + 1)
-    windows.sort()
-    merged: list[list[int]] = []
-    for start, end in windows:
-        if merged and start <= merged[-1][1]:
-            merged[-1][1] = max(merged[-1][1], end)
-        else:
-            merged.append([start, end])
-    for start, end in merged:
-        yield from pattern.compiled.finditer(text, start, min(end, len(text)))
-
-
-@dataclass(frozen=True)
-class _Boundaries:
-    """Sentence and paragraph starts and tails mentions of one document, found in one pass."""
-
-    sentence_starts: list[int]
-    paragraph_starts: list[int]
-    #: per cue ("tails", "design"): sorted (offset, value) of every mention in the document
-    cues: dict[str, list[tuple[int, str]]]
-
-    @classmethod
-    def of(cls, text: str, library: Library) -> "_Boundaries":
-        sentences = [0] + [m.end() for m in _SENTENCE_BREAK.finditer(text)]
-        paragraphs = [0] + [m.end() for m in _PARAGRAPH_BREAK.finditer(text)]
-        # Keywords are ASCII: an ASCII copy (every other character as "?") keeps the offsets and
-        # costs one byte a character, where str.lower() of a non-ASCII text can briefly need
-        # twelve.
-        lowered = text.encode("ascii", "replace").lower()
-        cues: dict[str, list[tuple[int, str]]] = {}
-        for cue, kinds in _CUES.items():
-            mentions = [(m.start(), value) for kind, value in kinds
-                        for pattern in library.of_kind(kind)
-                        for m in _matches_near_keywords(pattern, text, lowered)]
-            cues[cue] = sorted(mentions)
-        return cls(sentences, paragraphs, cues)
-
-    @staticmethod
-    def _span(starts: list[int], position: int, text_length: int) -> tuple[int, int]:
-        index = bisect_right(starts, position) - 1
-        end = starts[index + 1] if index + 1 < len(starts) else text_length
-        return starts[index], end
-
-    def sentence(self, position: int, text_length: int) -> tuple[int, int]:
-        return self._span(self.sentence_starts, position, text_length)
-
-    def paragraph(self, position: int, text_length: int) -> tuple[int, int]:
-        return self._span(self.paragraph_starts, position, text_length)
-
-    def nearest(self, cue: str, start: int, end: int, position: int) -> str | None:
-        """The value of the mention of `cue` in [start, end) nearest to `position`, if any."""
-        mentions = self.cues[cue]
-        low = bisect_left(mentions, (start, ""))
-        high = bisect_left(mentions, (end, ""))
-        if low == high:
-            return None
-        return min(mentions[low:high], key=lambda item: abs(item[0] - position))[1]
-
-    def stated(self, cue: str, position: int, text_length: int) -> str | None:
-        """What the sentence at `position` says about `cue`, else what its paragraph says."""
-        sentence_start, sentence_end = self.sentence(position, text_length)
-        value = self.nearest(cue, sentence_start, sentence_end, position)
-        if value is None:
-            # Text without blank lines (hard-wrapped text, PDF text layers) is one "paragraph"
-            # from title to references; a mention further away than a long paragraph is not
-            # about this result.
-            paragraph_start, paragraph_end = self.paragraph(position, text_length)
-            value = self.nearest(cue, max(paragraph_start, position - PARAGRAPH_REACH),
-                                 min(paragraph_end, position + PARAGRAPH_REACH), position)
-        return value
 
 
 # Where a statistic can start: one of the symbols the statistic patterns begin with (t, F, r,
@@ -225,11 +105,10 @@ def statistic_heads(text: str, library: Library) -> list[regex.Match]:
     return heads
 
 
-def find_claims(document: Document, library: Library | None = None) -> list[Claim]:
+def find_test_results(document: Document, library: Library,
+                      boundaries: Boundaries) -> list[Claim]:
     """Every test result printed in `document`, in the order of the text."""
-    library = library or load_library()
     text = document.normalised
-    boundaries = _Boundaries.of(text, library)
     heads = _with_their_p(statistic_heads(text, library), text, library, boundaries)
     claims: list[Claim] = []
     for index, head in enumerate(heads):
@@ -241,7 +120,7 @@ def find_claims(document: Document, library: Library | None = None) -> list[Clai
 
 
 def _with_their_p(heads: list[regex.Match], text: str, library: Library,
-                  boundaries: _Boundaries) -> list[regex.Match]:
+                  boundaries: Boundaries) -> list[regex.Match]:
     """The heads that count: a pattern that needs a p-value ("r = .42", "t = 30 s") counts only
     when one follows before the next head. A head that does not count must not end the window
     of the result before it ("t(28) = 2.45, p = .021, r = .42": the r is an effect size)."""
@@ -251,8 +130,8 @@ def _with_their_p(heads: list[regex.Match], text: str, library: Library,
             next_head = heads[index + 1].start() if index + 1 < len(heads) else len(text)
             end = min(next_head, boundaries.sentence(head.start(), len(text))[1],
                       head.end() + WINDOW)
-            if not (_first(library.scanner("p-value"), text, head.end(), end)
-                    or _first(library.scanner("not-significant"), text, head.end(), end)):
+            if not (first(library.scanner("p-value"), text, head.end(), end)
+                    or first(library.scanner("not-significant"), text, head.end(), end)):
                 continue
         kept.append(head)
     return kept
@@ -261,10 +140,10 @@ def _with_their_p(heads: list[regex.Match], text: str, library: Library,
 def _printed_effect(library: Library, text: str, head: regex.Match, window_end: int,
                     sentence_start: int) -> regex.Match | None:
     """The first effect size printed after the statistic, or an R squared just before it."""
-    after = _first(library.scanner("printed-effect"), text, head.end(), window_end)
+    after = first(library.scanner("printed-effect"), text, head.end(), window_end)
     if after is not None:
         return after
-    before = _last(library.scanner("printed-effect"), text,
+    before = last(library.scanner("printed-effect"), text,
                    max(sentence_start, head.start() - _EFFECT_BEFORE), head.start())
     if before is not None and library.matched_pattern("printed-effect", before).measure == "R2" \
             and _ONLY_SEPARATORS.fullmatch(text, before.end(), head.start()):
@@ -287,10 +166,6 @@ def _group_sizes(library: Library, text: str, sentence: tuple[int, int],
     return (sizes[0], sizes[1]) if abs(total - (df + 2.0)) < 1e-9 else None
 
 
-def _first(scanner: regex.Pattern, text: str, start: int, end: int) -> regex.Match | None:
-    return scanner.search(text, start, end) if start < end else None
-
-
 def _df_just_before(library: Library, text: str, start: int, head_start: int) -> regex.Match | None:
     """Degrees of freedom printed right before a statistic ("df = 28, t = 2.20, p = .036").
 
@@ -298,21 +173,15 @@ def _df_just_before(library: Library, text: str, start: int, head_start: int) ->
     counts, and not one that as closely follows an earlier p-value ("t = 2.1, p = .04, df = 30;
     t = 1.3, ..."): which of the two results it belongs to cannot be told, so neither gets it.
     """
-    last = _last(library.scanner("df"), text, start, head_start)
-    if last is None or not _ONLY_SEPARATORS.fullmatch(text, last.end(), head_start):
+    df_match = last(library.scanner("df"), text, start, head_start)
+    if df_match is None or not _ONLY_SEPARATORS.fullmatch(text, df_match.end(), head_start):
         return None
-    p_before = _last(library.scanner("p-value"), text, max(0, last.start() - _DF_BEFORE),
-                     last.start())
-    if p_before is not None and _ONLY_SEPARATORS.fullmatch(text, p_before.end(), last.start()):
+    p_before = last(library.scanner("p-value"), text, max(0, df_match.start() - _DF_BEFORE),
+                    df_match.start())
+    if p_before is not None and _ONLY_SEPARATORS.fullmatch(text, p_before.end(),
+                                                            df_match.start()):
         return None
-    return last
-
-
-def _last(scanner: regex.Pattern, text: str, start: int, end: int) -> regex.Match | None:
-    last = None
-    for match in scanner.finditer(text, start, end):
-        last = match
-    return last
+    return df_match
 
 
 def _df_just_after(library: Library, text: str, p_end: int, end: int,
@@ -321,7 +190,7 @@ def _df_just_after(library: Library, text: str, p_end: int, end: int,
 
     Not a df that the next statistic follows as closely: it may be that statistic's.
     """
-    match = _first(library.scanner("df"), text, p_end, end)
+    match = first(library.scanner("df"), text, p_end, end)
     if match is None or not _ONLY_SEPARATORS.fullmatch(text, p_end, match.start()):
         return None
     if next_head < len(text) and _ONLY_SEPARATORS.fullmatch(text, match.end(), next_head):
@@ -329,19 +198,19 @@ def _df_just_after(library: Library, text: str, p_end: int, end: int,
     return match
 
 
-def _claim_at(document: Document, library: Library, boundaries: _Boundaries,
+def _claim_at(document: Document, library: Library, boundaries: Boundaries,
               head: regex.Match, next_head: int) -> Claim | None:
     text = document.normalised
     pattern = library.matched_pattern("statistic", head)
     sentence_start, sentence_end = boundaries.sentence(head.start(), len(text))
     window_end = min(next_head, sentence_end, head.end() + WINDOW)
-    other_test = _first(library.scanner("other-test"), text, head.end(), window_end)
+    other_test = first(library.scanner("other-test"), text, head.end(), window_end)
     if other_test is not None:  # a p-value after it is that test's, not this one's
         window_end = other_test.start()
 
-    p_match = _first(library.scanner("p-value"), text, head.end(), window_end)
+    p_match = first(library.scanner("p-value"), text, head.end(), window_end)
     ns_end = p_match.start() if p_match else window_end
-    ns_match = _first(library.scanner("not-significant"), text, head.end(), ns_end)
+    ns_match = first(library.scanner("not-significant"), text, head.end(), ns_end)
     if pattern.needs_p and p_match is None and ns_match is None:
         return None
 
@@ -361,7 +230,7 @@ def _claim_at(document: Document, library: Library, boundaries: _Boundaries,
     end = head.end()
     if p_match is not None:
         p_value = PValue(
-            comparator=_comparator(p_match.group("p_cmp")),
+            comparator=comparator(p_match.group("p_cmp")),
             reported=printed(p_match, "p_value") or "",
             adjusted=p_match.group("p_adjust"),
         )
@@ -376,14 +245,14 @@ def _claim_at(document: Document, library: Library, boundaries: _Boundaries,
     # Degrees of freedom or N printed after the statistic ("t = 2.45, df = 28").
     between_end = p_match.start() if p_match else window_end
     if not df:
-        df_match = _first(library.scanner("df"), text, head.end(), between_end) \
+        df_match = first(library.scanner("df"), text, head.end(), between_end) \
             or _df_just_before(library, text, max(sentence_start, head.start() - _DF_BEFORE),
                                head.start()) \
             or (p_match and _df_just_after(library, text, p_match.end(), window_end, next_head))
         if df_match is not None:
             df = tuple(d for d in (printed(df_match, "df1"), printed(df_match, "df2")) if d)
     if n is None and not (pattern.test == "r" and df):
-        n_match = _first(library.scanner("sample-size"), text, head.end(), between_end)
+        n_match = first(library.scanner("sample-size"), text, head.end(), between_end)
         if n_match is not None:
             n = printed(n_match, "n")
 
@@ -403,7 +272,7 @@ def _claim_at(document: Document, library: Library, boundaries: _Boundaries,
         effect_printed = PrintedEffect(
             measure=library.matched_pattern("printed-effect", effect_match).measure,
             value=printed(effect_match, "effect_value") or "",
-            label=_WHITESPACE.sub(" ", document.text[
+            label=WHITESPACE.sub(" ", document.text[
                 document.original_offset(effect_match.start()):
                 document.original_offset(effect_match.start("effect_value"))]).strip(" =*_"),
         )
@@ -419,11 +288,11 @@ def _claim_at(document: Document, library: Library, boundaries: _Boundaries,
         test=pattern.test or "",
         df=df,
         statistic=printed(head, "statistic") or "",
-        statistic_comparator=_comparator(head.group("stat_cmp")),
+        statistic_comparator=comparator(head.group("stat_cmp")),
         p=p_value,
         location=document.location(start_original, end_original),
         text=document.text[start_original:end_original],
-        sentence=_WHITESPACE.sub(" ", sentence).strip(),
+        sentence=WHITESPACE.sub(" ", sentence).strip(),
         n=n,
         tails_stated=tails,
         design_stated=design,
@@ -434,4 +303,4 @@ def _claim_at(document: Document, library: Library, boundaries: _Boundaries,
     )
 
 
-__all__ = ["find_claims", "WINDOW", "PARAGRAPH_REACH"]
+__all__ = ["PARAGRAPH_REACH", "WINDOW", "find_test_results", "statistic_heads"]
