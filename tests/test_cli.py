@@ -237,3 +237,14 @@ def test_every_format_carries_the_caution(manuscripts):
     path = manuscripts("a.txt", MISMATCH)
     assert scrutiny.CAUTION in " ".join(run("check", path)[1].split())
     assert json.loads(run("check", path, "--format", "json")[1])["caution"] == scrutiny.CAUTION
+
+
+def test_integer_scales_turns_granularity_tests_on(manuscripts):
+    # M = 3.48 is impossible for 20 integer responses (3.48 x 20 = 69.6; Brown & Heathers 2017)
+    path = manuscripts("a.txt", "Burrow temperature was high (M = 3.48, SD = 1.21, n = 20).\n")
+    plain = json.loads(run("check", path, "--format", "json")[1])["documents"][0]["claims"][0]
+    assert (plain["test"], plain["status"], plain["flags"]) == ("mean", "unchecked", [])
+    declared = json.loads(run("check", path, "--integer-scales", "--format", "json")[1])
+    claim = declared["documents"][0]["claims"][0]
+    assert [f["check"] for f in claim["flags"]] == ["grim"]
+    assert "--integer-scales declares it" in claim["flags"][0]["message"]

@@ -92,6 +92,9 @@ def build_parser() -> tuple[argparse.ArgumentParser, dict[str, argparse.Argument
                        metavar="MEASURE=VALUE",
                        help="smallest effect size of interest, e.g. d=0.3, r=0.1, eta2=0.01, "
                             "w=0.1 (defaults: Cohen's small effects); may be repeated")
+    check.add_argument("--integer-scales", action="store_true",
+                       help="treat every mean as a mean of integer responses (GRIM, GRIMMER), "
+                            "also where the text does not say the measure is integer-valued")
     check.add_argument("--prior-scale", type=_positive, default=0.7071067811865476,
                        metavar="R",
                        help="scale of the Cauchy prior on the standardised effect for the JZS "
@@ -153,7 +156,8 @@ def main(argv: Sequence[str] | None = None, stdout: TextIO | None = None,
         if args.command == "checks":
             _list_checks(stdout)
             return EXIT_OK
-        settings = Settings(alpha=args.alpha, prior_scale=args.prior_scale,
+        settings = Settings(alpha=args.alpha, integer_scales=args.integer_scales,
+                            prior_scale=args.prior_scale,
                             prior_null=args.prior_null, time_limit=args.time_limit,
                             memory_limit_mb=int(args.memory_limit),
                             **{_SESOI_KEYS[key]: value for key, value in args.sesoi})
