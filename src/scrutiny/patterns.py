@@ -48,8 +48,9 @@ class Pattern:
     must_not_match: tuple[str, ...] = ()
     #: printed-effect patterns: which effect size they read (d, g, eta2, eta2_partial, ...)
     measure: str | None = None
-    #: lower-case words of which every match contains at least one; when given, a whole-text
-    #: search looks only near them (a test checks the examples against them)
+    #: words of which every match contains at least one; when given, a whole-text search looks
+    #: only near them (a test checks the examples against them). Lower-case ASCII keywords are
+    #: found in any case; others ("SE", "±") exactly as written
     keywords: tuple[str, ...] = ()
 
 
@@ -103,9 +104,11 @@ def _expand(source: str, fragments: dict[str, str], where: str, depth: int = 0) 
 
 
 def _keyword(word: str, where: str) -> str:
-    if not word.isascii() or not word.strip():
-        raise PatternError(f"{where}: keywords must be ASCII words, not {word!r}")
-    return word.lower()
+    """A keyword as the pattern file gives it: lower-case ASCII is matched in any case, anything
+    else (capitals, symbols such as "±") exactly as written."""
+    if not word.strip():
+        raise PatternError(f"{where}: an empty keyword")
+    return word
 
 
 def _combine(patterns: tuple[Pattern, ...]) -> regex.Pattern:

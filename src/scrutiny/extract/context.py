@@ -57,12 +57,15 @@ def _matches_near_keywords(pattern: Pattern, text: str,
         return
     windows = []
     for keyword in pattern.keywords:
-        literal = keyword.encode("ascii")
-        found = lowered.find(literal)
+        # lower-case ASCII keywords in any case (in the lowered copy), others exactly
+        haystack, literal = ((lowered, keyword.encode("ascii"))
+                             if keyword.isascii() and keyword == keyword.lower()
+                             else (text, keyword))
+        found = haystack.find(literal)
         while found != -1:
             windows.append((max(0, found - _KEYWORD_REACH),
                             found + len(literal) + _KEYWORD_REACH))
-            found = lowered.find(literal, found + 1)
+            found = haystack.find(literal, found + 1)
     windows.sort()
     merged: list[list[int]] = []
     for start, end in windows:
@@ -72,6 +75,25 @@ def _matches_near_keywords(pattern: Pattern, text: str,
             merged.append([start, end])
     for start, end in merged:
         yield from pattern.compiled.finditer(text, start, min(end, len(text)))
+
+
+def lowered_ascii(text: str) -> bytes:
+    """The text as lower-case ASCII bytes, offset for offset (other characters become "?"):
+    one byte a character, where str.lower() of a non-ASCII text can briefly need twelve."""
+    return text.encode("ascii", "replace").lower()
+
+
+def find_all(library: Library, kind: str, text: str, lowered: bytes | None) -> list[regex.Match]:
+    """Every match of the patterns of `kind` in `text`, in order, without overlaps; patterns
+    with keywords are tried only near them."""
+    matches = sorted((m for pattern in library.of_kind(kind)
+                      for m in _matches_near_keywords(pattern, text, lowered)),
+                     key=lambda m: (m.start(), -m.end()))
+    kept: list[regex.Match] = []
+    for match in matches:
+        if not kept or match.start() >= kept[-1].end():
+            kept.append(match)
+    return kept
 
 
 @dataclass(frozen=True)
@@ -87,10 +109,7 @@ class Boundaries:
     def of(cls, text: str, library: Library) -> "Boundaries":
         sentences = [0] + [m.end() for m in _SENTENCE_BREAK.finditer(text)]
         paragraphs = [0] + [m.end() for m in _PARAGRAPH_BREAK.finditer(text)]
-        # Keywords are ASCII: an ASCII copy (every other character as "?") keeps the offsets and
-        # costs one byte a character, where str.lower() of a non-ASCII text can briefly need
-        # twelve.
-        lowered = text.encode("ascii", "replace").lower()
+        lowered = lowered_ascii(text)
         cues: dict[str, list[tuple[int, str]]] = {}
         for cue, kinds in _CUES.items():
             mentions = [(m.start(), value) for kind, value in kinds
