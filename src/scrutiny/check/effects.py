@@ -122,7 +122,7 @@ def evidence_favours_null(claim: Claim, recomputed: Recomputed, context: Context
 
 @check("effect-mismatch", Severity.WARNING,
        "A printed effect size cannot come from the printed statistic",
-       applies_to=TEST_FAMILIES)
+       applies_to=TEST_FAMILIES, marks_inconsistent=True)
 def effect_mismatch(claim: Claim, recomputed: Recomputed, context: Context,
                     settings: Settings) -> Iterator[Finding]:
     """An effect size printed with a result that no rounding of the statistic implies.
