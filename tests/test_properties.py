@@ -163,7 +163,10 @@ def test_a_correctly_rounded_p_is_never_flagged(case):
     [result] = check_text(text).claims
     raised = {flag.check for flag in result.flags}
     assert not raised & CONSISTENCY_CHECKS, (text, [f.message for f in result.flags])
-    assert result.status.value == "consistent", (text, result.reason)
+    # the material printed between statistic and p may hold an arbitrary "ηp² = .12" or
+    # "d = 0.41", which effect-mismatch may rightly find inconsistent with the statistic
+    assert result.status.value == "consistent" or raised == {"effect-mismatch"}, (
+        text, result.reason)
 
 
 @settings(max_examples=300, deadline=None)
