@@ -2,6 +2,8 @@
 
     scrutiny check PATH... [--format text|json] [--alpha A] [--fail-on SEVERITY]
                            [--sesoi MEASURE=VALUE]...
+    scrutiny screen PATH... --store FILE [--workers N] [--dask ADDRESS] [--restart]
+    scrutiny summary FILE  the corpus view of a screening store
     scrutiny checks        list every check with the statistics behind it
 
 Exit codes: 0 no flag at or above --fail-on; 1 flags at or above it; 2 bad usage, or an input
@@ -17,9 +19,11 @@ from typing import Sequence, TextIO
 from . import __version__
 from .api import check_paths
 from .check import REGISTRY
-from .errors import UsageError
+from .errors import ScrutinyError, UsageError
 from .model import Run, Settings, Severity
 from .report import FORMATS, render
+from .report.summary import render_summary
+from .screen import screen, summarise
 
 EXIT_OK, EXIT_FLAGS, EXIT_USAGE = 0, 1, 2
 _SESOI_KEYS = {"d": "sesoi_d", "r": "sesoi_r", "eta2": "sesoi_eta2", "w": "sesoi_w"}
@@ -49,6 +53,16 @@ def _positive(text: str) -> float:
         raise argparse.ArgumentTypeError(f"not a number: {text!r}") from None
     if not value > 0:
         raise argparse.ArgumentTypeError(f"must be positive, got {text}")
+    return value
+
+
+def _positive_int(text: str) -> int:
+    try:
+        value = int(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"not a whole number: {text!r}") from None
+    if value < 1:
+        raise argparse.ArgumentTypeError(f"must be at least 1, got {text}")
     return value
 
 
@@ -82,35 +96,64 @@ def build_parser() -> tuple[argparse.ArgumentParser, dict[str, argparse.Argument
                             "standard input")
     check.add_argument("--format", choices=FORMATS, default="text",
                        help="report format (default: text)")
-    check.add_argument("--alpha", type=_probability, default=0.05,
-                       help="significance level for decision flips and effects (default: .05)")
     check.add_argument("--fail-on", choices=[s.label for s in Severity] + ["never"],
                        default="error",
                        help="exit with 1 when a flag of this severity or higher is raised "
                             "(default: error)")
-    check.add_argument("--sesoi", type=_sesoi, action="append", default=[],
-                       metavar="MEASURE=VALUE",
-                       help="smallest effect size of interest, e.g. d=0.3, r=0.1, eta2=0.01, "
-                            "w=0.1 (defaults: Cohen's small effects); may be repeated")
-    check.add_argument("--integer-scales", action="store_true",
-                       help="treat every mean as a mean of integer responses (GRIM, GRIMMER), "
-                            "also where the text does not say the measure is integer-valued")
-    check.add_argument("--prior-scale", type=_positive, default=0.7071067811865476,
-                       metavar="R",
-                       help="scale of the Cauchy prior on the standardised effect for the JZS "
-                            "Bayes factor (default: sqrt(2)/2 = 0.707)")
-    check.add_argument("--prior-null", type=_probability, default=0.5, metavar="PI0",
-                       help="prior probability of the null hypothesis for the posterior "
-                            "probabilities (default: 0.5)")
-    check.add_argument("--time-limit", type=_positive, default=120.0, metavar="SECONDS",
-                       help="give up on a PDF, Word or markup file after this long "
-                            "(default: 120)")
-    check.add_argument("--memory-limit", type=_positive, default=2048.0, metavar="MB",
-                       help="give up on a PDF, Word or markup file that needs more memory "
-                            "than this (default: 2048)")
+    _settings_options(check)
+    screen = commands.add_parser(
+        "screen", help="check a journal issue or corpus in parallel into a resumable store",
+        description="Check every manuscript under the paths in parallel, store each result in "
+                    "an SQLite file as soon as it is done (run again to resume), and summarise "
+                    "the corpus: flags per check, p-curve and caliper tests.")
+    screen.add_argument("paths", nargs="+", metavar="PATH", help="manuscript files or folders")
+    screen.add_argument("--store", required=True, metavar="FILE",
+                        help="the SQLite file of the screening (created if missing)")
+    screen.add_argument("--workers", type=_positive_int, default=None, metavar="N",
+                        help="worker processes (default: one per core)")
+    screen.add_argument("--dask", metavar="ADDRESS", default=None,
+                        help="run on the Dask cluster at ADDRESS (tcp://host:8786), or 'local' "
+                             "for a Dask cluster on this machine")
+    screen.add_argument("--restart", action="store_true",
+                        help="check every document again, also those already stored")
+    screen.add_argument("--format", choices=FORMATS, default="text",
+                        help="summary format (default: text)")
+    _settings_options(screen)
+    summary = commands.add_parser(
+        "summary", help="summarise a screening store (flags, p-curve, caliper)",
+        description="Summarise the documents of a screening store.")
+    summary.add_argument("store", metavar="FILE", help="the SQLite file of a screening")
+    summary.add_argument("--format", choices=FORMATS, default="text",
+                         help="summary format (default: text)")
     checks = commands.add_parser("checks", help="list every check and the statistics behind it",
                                  description="List every check scrutiny runs.")
-    return parser, {"check": check, "checks": checks}
+    return parser, {"check": check, "checks": checks, "screen": screen, "summary": summary}
+
+
+def _settings_options(command: argparse.ArgumentParser) -> None:
+    """The options that set `Settings`, shared by check and screen."""
+    command.add_argument("--alpha", type=_probability, default=0.05,
+                         help="significance level for decision flips and effects (default: .05)")
+    command.add_argument("--sesoi", type=_sesoi, action="append", default=[],
+                         metavar="MEASURE=VALUE",
+                         help="smallest effect size of interest, e.g. d=0.3, r=0.1, eta2=0.01, "
+                              "w=0.1 (defaults: Cohen's small effects); may be repeated")
+    command.add_argument("--integer-scales", action="store_true",
+                         help="treat every mean as a mean of integer responses (GRIM, GRIMMER), "
+                              "also where the text does not say the measure is integer-valued")
+    command.add_argument("--prior-scale", type=_positive, default=0.7071067811865476,
+                         metavar="R",
+                         help="scale of the Cauchy prior on the standardised effect for the JZS "
+                              "Bayes factor (default: sqrt(2)/2 = 0.707)")
+    command.add_argument("--prior-null", type=_probability, default=0.5, metavar="PI0",
+                         help="prior probability of the null hypothesis for the posterior "
+                              "probabilities (default: 0.5)")
+    command.add_argument("--time-limit", type=_positive, default=120.0, metavar="SECONDS",
+                         help="give up on a PDF, Word or markup file after this long "
+                              "(default: 120)")
+    command.add_argument("--memory-limit", type=_positive, default=2048.0, metavar="MB",
+                         help="give up on a PDF, Word or markup file that needs more memory "
+                              "than this (default: 2048)")
 
 
 def parse_arguments(argv: Sequence[str]) -> argparse.Namespace:
@@ -144,6 +187,21 @@ def _list_checks(stream: TextIO) -> None:
         stream.write("\n")
 
 
+def _screen(args: argparse.Namespace, settings: Settings, stdout: TextIO,
+            stderr: TextIO) -> int:
+    def progress(done: int, total: int, path: str, result: dict) -> None:
+        if result.get("errors"):
+            stderr.write(f"scrutiny: {path}: {result['errors'][0]}\n")
+        elif getattr(stderr, "isatty", lambda: False)():
+            stderr.write(f"\r[{done}/{total}] {len(result['claims'])} results: {path}"[:200])
+            stderr.write("\033[K" if done < total else "\n")
+
+    screening = screen(args.paths, args.store, settings, workers=args.workers,
+                       scheduler=args.dask, resume=not args.restart, progress=progress)
+    render_summary(summarise(args.store, settings), args.format, stdout, screening)
+    return EXIT_OK
+
+
 def main(argv: Sequence[str] | None = None, stdout: TextIO | None = None,
          stderr: TextIO | None = None) -> int:
     stdout = stdout or sys.stdout
@@ -156,11 +214,16 @@ def main(argv: Sequence[str] | None = None, stdout: TextIO | None = None,
         if args.command == "checks":
             _list_checks(stdout)
             return EXIT_OK
+        if args.command == "summary":
+            render_summary(summarise(args.store), args.format, stdout)
+            return EXIT_OK
         settings = Settings(alpha=args.alpha, integer_scales=args.integer_scales,
                             prior_scale=args.prior_scale,
                             prior_null=args.prior_null, time_limit=args.time_limit,
                             memory_limit_mb=int(args.memory_limit),
                             **{_SESOI_KEYS[key]: value for key, value in args.sesoi})
+        if args.command == "screen":
+            return _screen(args, settings, stdout, stderr)
         run = check_paths(args.paths, settings=settings)
         for document in run.documents:
             for error in document.errors:
@@ -168,7 +231,7 @@ def main(argv: Sequence[str] | None = None, stdout: TextIO | None = None,
         render(run, args.format, stdout)
         stdout.flush()
         return exit_code(run, args.fail_on)
-    except UsageError as exc:
+    except ScrutinyError as exc:  # bad usage, an unusable store: one line, exit 2
         stderr.write(f"scrutiny: error: {exc}\n")
         return EXIT_USAGE
     except KeyboardInterrupt:
