@@ -217,3 +217,19 @@ def test_screen_usage_errors(argv, fragment, tmp_path, monkeypatch):
     monkeypatch.chdir(tmp_path)
     code, out, err = _run(*argv)
     assert code == 2 and err.count("\n") == 1 and fragment in err
+
+
+def test_poisson_binomial_against_enumeration():
+    # with equal probabilities it is the binomial; with unequal ones, checked by enumerating
+    # every outcome of three trials
+    import itertools
+
+    from scrutiny.screen.corpus import _poisson_binomial_cdf
+
+    assert _poisson_binomial_cdf(3, [0.5] * 10) == pytest.approx(176 / 1024)  # sum C(10, k<=3)
+    probabilities = [0.2, 0.5, 0.9]
+    for successes in range(4):
+        enumerated = sum(
+            __import__("math").prod(p if hit else 1 - p for p, hit in zip(probabilities, outcome))
+            for outcome in itertools.product((0, 1), repeat=3) if sum(outcome) <= successes)
+        assert _poisson_binomial_cdf(successes, probabilities) == pytest.approx(enumerated)

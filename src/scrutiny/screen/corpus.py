@@ -25,9 +25,11 @@ every significant result it found, which the summary states.
 
 from __future__ import annotations
 
+import functools
 import math
 from dataclasses import dataclass
 
+import numpy
 from scipy import special, stats
 
 from ..recompute.effects import _noncentral_chi2, _noncentral_f
@@ -74,6 +76,7 @@ def _upper_p(family: str, value: float, df: tuple[float, ...]) -> float:
     return float(special.chdtrc(df[0], value))
 
 
+@functools.lru_cache(maxsize=8192)
 def _critical(family: str, df: tuple[float, ...], alpha: float) -> float:
     if family == "F":
         return float(special.fdtri(df[0], df[1], 1.0 - alpha))
@@ -86,6 +89,7 @@ def _noncentral_cdf(family: str, value: float, df: tuple[float, ...], noncentral
     return float(special.chndtr(value, df[0], noncentrality))
 
 
+@functools.lru_cache(maxsize=4096)
 def power_33_noncentrality(family: str, df: tuple[float, ...]) -> float:
     """The noncentrality at which the test has 1/3 power at alpha = .05."""
     critical = _critical(family, df, 0.05)
@@ -132,14 +136,14 @@ def _stouffer(pp: list[float]) -> tuple[float, float]:
 
 def _poisson_binomial_cdf(successes: int, probabilities: list[float]) -> float:
     """P(X <= successes) for a sum of independent Bernoulli variables."""
-    distribution = [1.0]
-    for probability in probabilities:
-        following = [0.0] * (len(distribution) + 1)
-        for count, mass in enumerate(distribution):
-            following[count] += mass * (1.0 - probability)
-            following[count + 1] += mass * probability
-        distribution = following
-    return min(1.0, sum(distribution[:successes + 1]))
+    distribution = numpy.zeros(len(probabilities) + 1)
+    distribution[0] = 1.0
+    for size, probability in enumerate(probabilities, start=1):
+        # after `size` trials the counts 0..size carry mass; shift the successes up by one
+        distribution[1:size + 1] = (distribution[1:size + 1] * (1.0 - probability)
+                                    + distribution[:size] * probability)
+        distribution[0] *= 1.0 - probability
+    return float(min(1.0, distribution[:successes + 1].sum()))
 
 
 @dataclass(frozen=True)
