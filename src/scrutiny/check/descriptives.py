@@ -102,9 +102,11 @@ def df_sample_mismatch(claim: Claim, recomputed: Recomputed, context: Context,
     With N observations a t test has at most N - 1 df (one sample or paired; two groups have
     N - 2) and a correlation N - 2. The N is taken only when it is unambiguously the same
     sample: the only N printed in the result's sentence, or in its paragraph when that reports
-    no other t or r; results with fractional (Satterthwaite) df, which mixed models compute
-    from observations rather than participants, are left alone. Known causes besides typing
-    errors: an analysis of trials or observations while N counts participants.
+    no other t or r; never an N per group, and never where the sentence or paragraph speaks of
+    trials, observations, repeated measures or a mixed model, whose df count observations
+    rather than participants (results with fractional, Satterthwaite df are left alone for the
+    same reason). Known causes besides typing errors: an analysis of trials or observations
+    while N counts participants, or an N that counts one group only.
     """
     if not claim.sample_size or not recomputed.df:
         return

@@ -6,7 +6,8 @@ from typing import Iterator
 
 from ..model import Claim, Recomputed, Settings, Severity
 from ..numbers import format_p_interval
-from ..rounding import intervals_meet, magnitude_interval
+from ..recompute.intervals import arm_ratio
+from ..rounding import intervals_meet, magnitude_interval, parse_printed
 from . import Context, Finding, check
 from .consistency import describe_p, describe_statistic
 
@@ -32,8 +33,12 @@ def ci_p_mismatch(claim: Claim, recomputed: Recomputed, context: Context,
     and the p-value follows (Altman & Bland 2011, BMJ 343:d2304); ratios (odds, risk and hazard
     ratios) work on the log scale, correlations on Fisher's z scale. Every printed number is
     read with its rounding, and because an interval may come from a t distribution with
-    unknown df, any df from 10 up is allowed. A second test needs no arithmetic: the interval
-    excludes the null value (0, or 1 for ratios) if and only if p < 1 - confidence level.
+    unknown df, any df from 10 up is allowed; an interval that is lopsided beyond rounding
+    (profile likelihood, exact, bootstrap) also lets the SE be what either arm implies. A
+    second test needs no arithmetic: the interval excludes the null value (0, or 1 for
+    ratios) if and only if p < 1 - confidence level. Known causes besides typing errors: a p
+    from another test than the interval (Fisher's exact or a likelihood-ratio p beside a Wald
+    interval), which can put the two on either side of the threshold near it.
     """
     facts = recomputed.interval_facts
     reported = recomputed.reported_p_interval
@@ -58,40 +63,57 @@ def ci_p_mismatch(claim: Claim, recomputed: Recomputed, context: Context,
                       {"implied_low": facts.p.low, "implied_high": facts.p.high})
 
 
+#: labels of estimates whose interval is t- or Wald-based almost always (mean differences):
+#: checked for the middle within rounding
+_SYMMETRIC_LABELS = frozenset({"MD"})
+#: one arm this many times the other, beyond rounding, is more than profile-likelihood, exact
+#: (a rate ratio from a single event gives about 2) or bootstrap intervals usually produce
+LOPSIDED = 3.0
+
+
 @check("ci-estimate-mismatch", Severity.WARNING,
        "The estimate does not sit where its confidence interval says",
        applies_to={"estimate"})
 def ci_estimate_mismatch(claim: Claim, recomputed: Recomputed, context: Context,
                          settings: Settings) -> Iterator[Finding]:
-    """An estimate outside its own interval, or off its middle.
+    """An estimate outside its own interval, or far off its middle.
 
     A Wald interval is estimate +- z_c SE: the estimate lies in the middle of its interval, on
-    the log scale for ratios. Checked for ratios and for unstandardised differences and
-    coefficients (B, b, MD, RD, differences), within the rounding of the three numbers;
-    intervals of standardised effects (d, g, r) and from bootstraps or profile likelihoods
-    need not be symmetric and are not checked for the middle, only for containing the
-    estimate.
+    the log scale for ratios. A mean difference (MD), whose interval comes from a t or normal
+    distribution, is checked for the middle within the rounding of the three numbers. Other
+    intervals may honestly be lopsided: profile-likelihood intervals of odds ratios (R's
+    default), exact and score intervals of rates and risk differences, bootstrap intervals of
+    coefficients and indirect effects. For ratios and coefficients (OR, HR, RR, B, b,
+    differences) the check only fires when one arm is at least three times the other even
+    after rounding, which a misplaced decimal point or a mistyped limit produces and those
+    methods rarely do. Intervals of standardised effects (d, g, r) are only checked for
+    containing the estimate.
     """
     facts = recomputed.interval_facts
     estimate = claim.estimate
     if facts is None or estimate is None:
         return
-    from ..rounding import parse_printed
-
     value = parse_printed(estimate.value)
     low, high = parse_printed(estimate.low), parse_printed(estimate.high)
     if value.value + value.half_unit < low.value - low.half_unit or \
             value.value - value.half_unit > high.value + high.half_unit:
         yield Finding(f"{describe_estimate(claim)}: the estimate lies outside its own interval.")
         return
-    symmetric = estimate.ratio or estimate.label in ("B", "b", "MD", "RD", "Δ", "Estimate",
-                                                     "estimate", "Difference", "difference",
-                                                     "Diff", "diff")
-    if symmetric and facts.centre_offset > 1.0:
-        scale = "on the log scale " if estimate.ratio else ""
-        yield Finding(f"{describe_estimate(claim)}: the estimate is not in the middle of its "
-                      f"interval {scale}(off by {facts.centre_offset:.1f} times what rounding "
-                      f"allows).", {"centre_offset": facts.centre_offset})
+    if estimate.label in _SYMMETRIC_LABELS:
+        if facts.centre_offset > 1.0:
+            yield Finding(f"{describe_estimate(claim)}: the estimate is not in the middle of its "
+                          f"interval (off by {facts.centre_offset:.1f} times what rounding "
+                          f"allows).", {"centre_offset": facts.centre_offset})
+        return
+    if estimate.label in ("d", "g", "r", "SMD"):
+        return
+    lopsided = arm_ratio(value, low, high, ratio=estimate.ratio)
+    if LOPSIDED <= lopsided < float("inf"):
+        scale = " on the log scale" if estimate.ratio else ""
+        yield Finding(f"{describe_estimate(claim)}: one arm of the interval is {lopsided:.1f} "
+                      f"times the other{scale}, even allowing for rounding; a Wald interval is "
+                      f"symmetric, and profile-likelihood, exact or bootstrap intervals are rarely "
+                      f"this lopsided.", {"arm_ratio": lopsided})
 
 
 @check("coefficient-mismatch", Severity.ERROR,

@@ -11,10 +11,22 @@ What is found (patterns in `patterns/estimates.toml`):
 * coefficients with a standard error ("b = 0.34, SE = 0.12, p = .005").
 
 A coefficient printed right before a t or z ("b = 0.33, SE = 0.13, t(1893) = 2.53") and an
-interval printed inside a test result's window ("r = .19, 95% CI [-.11, .47], p = .21") belong to
-that result and are attached to its Claim; the others become Claims of their own (test "mean",
-"percent" or "estimate"). The N of the sample printed in a test result's sentence (or, if it is
+interval printed inside a test result ("r = .19, 95% CI [-.11, .47], p = .21") or right after it
+("t(58) = 2.10, p = .040, d = 0.54, 95% CI [0.02, 1.06]") belong to that result and are
+attached to its Claim; the others become Claims of their own (test "mean", "percent" or
+"estimate"). The N of the sample printed in a test result's sentence (or, if it is
 the only one, its paragraph) is attached too, for the check of df against the sample size.
+
+What decides whether the granularity tests may run is read here, conservatively, because a
+wrong cue raises a false alarm:
+
+* a count cue ("number of", "counts") is about a mean only in the mean's own sentence; a scale
+  cue ("7-point", "a scale from 1 to 5") also from the rest of its paragraph, and only for means
+  its range can hold; a mean printed with a unit of measurement ("12.4 g", "21.3 years") is
+  never taken for a mean of integer responses;
+* the number after "±" is an SD unless the sentence speaks of a standard error or a confidence
+  interval, or the document states "mean ± SEM" (or the like) as its convention anywhere;
+* a mean of means, a weighted or adjusted mean, or a mean of ages is not read at all.
 """
 
 from __future__ import annotations
@@ -27,7 +39,7 @@ import regex
 
 from ..model import Claim, Descriptive, Document, Estimate, Proportion, PValue
 from ..patterns import Library
-from .context import WHITESPACE, Boundaries, first
+from .context import PARAGRAPH_REACH, WHITESPACE, Boundaries, first
 from .statistics import comparator
 
 #: how far after an estimate its p-value may be printed
@@ -37,6 +49,10 @@ _COEFFICIENT_GAP = 40
 _RATIO_LABELS = frozenset({"OR", "aOR", "HR", "aHR", "RR", "aRR", "IRR", "aIRR", "PR"})
 #: what may stand between a coefficient (or an interval) and the test of it
 _SEPARATORS = regex.compile(r"[\s,;()\[\]]*(?:(?:Wald|Wald's|Wald’s)\s*)?")
+#: numbers written as words in cue phrases ("a seven-point scale")
+_WORD_NUMBERS = {"one": 1, "two": 2, "three": 3, "four": 4, "five": 5, "six": 6, "seven": 7,
+                 "eight": 8, "nine": 9, "ten": 10, "eleven": 11, "twelve": 12, "fifteen": 15,
+                 "twenty": 20}
 
 
 class _Reader:
@@ -69,13 +85,22 @@ class _Reader:
                                       self.document.original_offset(end)]
         return WHITESPACE.sub(" ", original).strip()
 
+    def pattern(self, kind: str, pattern_id: str) -> regex.Pattern:
+        """One pattern of `kind`, for where the patterns of a kind say different things."""
+        return next(p.compiled for p in self.library.of_kind(kind) if p.id == pattern_id)
+
+    def paragraph(self, position: int) -> tuple[int, int]:
+        """The paragraph at `position`, cut to PARAGRAPH_REACH either side: text without blank
+        lines (hard-wrapped text, PDF text layers) is one "paragraph" from title to references."""
+        start, end = self.boundaries.paragraph(position, len(self.text))
+        return max(start, position - PARAGRAPH_REACH), min(end, position + PARAGRAPH_REACH)
+
     def nearby(self, kind: str, position: int) -> regex.Match | None:
         """The first match of `kind` in the sentence at `position`, else in its paragraph."""
         start, end = self.sentence(position)
         found = first(self.library.scanner(kind), self.text, start, end)
         if found is None:
-            start, end = self.boundaries.paragraph(position, len(self.text))
-            found = first(self.library.scanner(kind), self.text, start, end)
+            found = first(self.library.scanner(kind), self.text, *self.paragraph(position))
         return found
 
     def test_containing(self, position: int) -> int | None:
@@ -122,54 +147,119 @@ def _p_value(reader: _Reader, match: regex.Match | None) -> PValue | None:
                   adjusted=match.group("p_adjust"))
 
 
+def _number(printed: str | None) -> float | None:
+    if printed is None:
+        return None
+    printed = printed.strip().lower()
+    if printed in _WORD_NUMBERS:
+        return float(_WORD_NUMBERS[printed])
+    try:
+        return float(printed.replace(" ", ""))
+    except ValueError:
+        return None
+
+
+def _scale_holds(cue: regex.Match, mean: float | None, items: float) -> bool:
+    """Can a mean on the scale this cue describes take this value? A 7-point scale holds means
+    up to 7 (up to 7 x items for sum scores), a scale from 1 to 5 means from 1 up; a cue whose
+    scale cannot hold the mean is about another measure."""
+    if mean is None:
+        return False
+    groups = cue.groupdict()
+    high = _number(groups.get("points")) or _number(groups.get("scale_high"))
+    low = _number(groups.get("scale_low"))
+    if high is not None and mean > high * items:
+        return False
+    if low is not None and mean < low:
+        return False
+    return True
+
+
+def _integer_cue(reader: _Reader, match: regex.Match, items: float) -> str | None:
+    """The words that say this mean is of integer-valued data, if any (see the module notes)."""
+    if match.captures("unit"):
+        return None  # "12.4 g", "21.3 years": a measurement
+    mean = _number(match.group("mean").replace("- ", "-"))
+    position = match.start()
+    sentence = reader.sentence(position)
+    scale = reader.pattern("integer-cue", "integer-scale")
+    count = reader.pattern("integer-cue", "integer-count")
+    found = [m for m in scale.finditer(reader.text, *sentence) if _scale_holds(m, mean, items)]
+    found += list(count.finditer(reader.text, *sentence))
+    if not found:
+        found = [m for m in scale.finditer(reader.text, *reader.paragraph(position))
+                 if _scale_holds(m, mean, items)]
+    if not found:
+        return None
+    nearest = min(found, key=lambda m: abs(m.start() - position))
+    return WHITESPACE.sub(" ", nearest.group()).strip()
+
+
+def _not_a_raw_mean(reader: _Reader, position: int) -> bool:
+    """A mean of means, a weighted, standardised or adjusted mean: no granularity to test."""
+    if first(reader.library.scanner("weighted-cue"), reader.text, *reader.sentence(position)):
+        return True
+    return first(reader.pattern("weighted-cue", "not-a-raw-mean"), reader.text,
+                 *reader.paragraph(position)) is not None
+
+
 def _descriptives(reader: _Reader) -> list[Claim]:
-    matches = list(reader.library.scanner("descriptive").finditer(reader.text))
+    matches = [match for match in reader.library.scanner("descriptive").finditer(reader.text)
+               if not _inside_test_result(reader, match.start())
+               and not _not_a_raw_mean(reader, match.start())]
     per_sentence: dict[int, int] = {}
     for match in matches:
         key = reader.sentence(match.start())[0]
         per_sentence[key] = per_sentence.get(key, 0) + 1
+    # "Values are mean ± SEM": the convention of the whole document's ± values
+    se_convention = bool(matches) and first(reader.pattern("se-cue", "standard-error-convention"),
+                                            reader.text, 0, len(reader.text)) is not None
+    stated_se = reader.pattern("se-cue", "standard-error-stated")
+    sizes = [reader.pattern("total-sample", "group-sample"),
+             reader.pattern("total-sample", "total-sample")]
     claims = []
     for match in matches:
-        if reader.test_containing(match.start()) is not None and \
-                match.start() < reader.test_ends[reader.test_containing(match.start())]:
-            continue  # inside a test result as printed
         sd = reader.printed(match, "sd")
         pattern = reader.library.matched_pattern("descriptive", match)
         sentence = reader.sentence(match.start())
-        if pattern.id == "mean-plus-minus" and first(reader.library.scanner("se-cue"),
-                                                     reader.text, *sentence):
-            sd = None  # "mean ± SE": the number after ± is not an SD
+        if pattern.id == "mean-plus-minus" and (
+                se_convention or first(stated_se, reader.text, *sentence)):
+            sd = None  # "mean ± SE", or a CI's half-width: the number after ± is not an SD
         n = reader.printed(match, "n")
         if n is None and per_sentence[sentence[0]] == 1:
-            sizes = list(reader.library.scanner("group-size").finditer(reader.text, *sentence)) + \
-                list(reader.library.scanner("total-sample").finditer(reader.text, *sentence))
-            if len(sizes) == 1:
-                n = reader.printed(sizes[0], "size" if "size" in sizes[0].groupdict() and
-                                   sizes[0].group("size") else "total")
-        cue = reader.nearby("integer-cue", match.start())
+            found = [m for scanner in sizes for m in scanner.finditer(reader.text, *sentence)]
+            if len(found) == 1:
+                n = reader.printed(found[0], "size" if found[0].groupdict().get("size")
+                                   else "total")
         items = reader.nearby("item-count", match.start())
         descriptive = Descriptive(
             mean=reader.printed(match, "mean") or "",
             sd=sd,
             n=n,
             items=items.group("items") if items is not None else None,
-            integer_cue=WHITESPACE.sub(" ", cue.group()).strip() if cue is not None else None,
+            integer_cue=_integer_cue(reader, match, (_number(items.group("items")) or 1.0)
+                                     if items is not None else 1.0),
         )
         claims.append(reader.claim("mean", "descriptive", match, descriptive.mean, match.end(),
                                    descriptive=descriptive))
     return claims
 
 
+def _inside_test_result(reader: _Reader, position: int) -> bool:
+    index = reader.test_containing(position)
+    return index is not None and position < reader.test_ends[index]
+
+
 def _proportions(reader: _Reader) -> list[Claim]:
     claims = []
+    weighted = reader.pattern("weighted-cue", "weighted")
     for match in reader.library.scanner("proportion").finditer(reader.text):
         sentence = reader.sentence(match.start())
         proportion = Proportion(
             percent=reader.printed(match, "percent") or "",
             count=reader.printed(match, "count") or "",
             base=reader.printed(match, "base") or "",
-            weighted=first(reader.library.scanner("weighted-cue"), reader.text, *sentence)
-            is not None,
+            weighted=first(weighted, reader.text, *sentence) is not None,
         )
         claims.append(reader.claim("percent", "proportion", match, proportion.percent, match.end(),
                                    proportion=proportion))
@@ -223,17 +313,23 @@ def _owner(reader: _Reader, match: regex.Match, kind: str) -> int | None:
     index = reader.test_containing(match.start())
     if index is not None and match.start() < reader.test_ends[index]:
         return index
+    # or right after it, as an effect size and its interval are printed after the p:
+    # "t(58) = 2.10, p = .040, d = 0.54, 95% CI [0.02, 1.06]"
+    if index is not None and reader.tests[index].test in ("t", "z", "r") and \
+            _SEPARATORS.fullmatch(reader.text, reader.test_ends[index], match.start()):
+        return index
     return None
 
 
 def _sample_sizes(reader: _Reader) -> dict[int, str]:
     """The N of the whole sample printed with a t or r result with whole-number df, by the
     result's index: the only N of its sentence, or the only N of its paragraph when the
-    paragraph reports no other t or r. Anything less plain (several N, several analyses,
-    Satterthwaite df of a mixed model that counts observations, not participants) is left
-    alone, because a wrong N would raise a false alarm."""
+    paragraph reports no other t or r. Anything less plain (several N, several analyses, an N
+    per group, trials or observations or a mixed model nearby, Satterthwaite df) is left alone,
+    because a wrong N would raise a false alarm."""
     found = {}
-    scanner = reader.library.scanner("total-sample")
+    scanner = reader.pattern("total-sample", "total-sample")
+    observations = reader.pattern("total-sample", "observations-not-sample")
     paragraph_results: dict[int, int] = {}
     for index, claim in enumerate(reader.tests):
         if claim.test in ("t", "r"):
@@ -243,10 +339,14 @@ def _sample_sizes(reader: _Reader) -> dict[int, str]:
         if claim.test not in ("t", "r") or not claim.df or not claim.df[0].isdigit():
             continue
         position = reader.test_starts[index]
-        mentions = list(scanner.finditer(reader.text, *reader.sentence(position)))
+        sentence, paragraph = reader.sentence(position), reader.paragraph(position)
+        if first(observations, reader.text, min(sentence[0], paragraph[0]),
+                 max(sentence[1], paragraph[1])):
+            continue  # trials, observations, a mixed model: the df need not count the N
+        mentions = list(scanner.finditer(reader.text, *sentence))
         if not mentions:
-            paragraph = reader.boundaries.paragraph(position, len(reader.text))
-            if paragraph_results.get(paragraph[0], 0) == 1:
+            key = reader.boundaries.paragraph(position, len(reader.text))[0]
+            if paragraph_results.get(key, 0) == 1:
                 mentions = list(scanner.finditer(reader.text, *paragraph))
         if len(mentions) == 1:
             found[index] = reader.printed(mentions[0], "total")
@@ -264,7 +364,7 @@ def with_estimates(document: Document, library: Library, boundaries: Boundaries,
         changes = {}
         if index in attached:
             changes["estimate"] = attached[index]
-        if index in samples and claim.n is None:
+        if index in samples:
             changes["sample_size"] = samples[index]
         updated.append(dataclasses.replace(claim, **changes) if changes else claim)
     return updated + _descriptives(reader) + _proportions(reader) + own_estimates

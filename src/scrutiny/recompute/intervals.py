@@ -8,11 +8,21 @@ the exact normal (and t, see below) tails instead.
 
 Rounding: the estimate and both limits are printed rounded, so every quantity is an interval
 over the box of values they stand for; the statistic is monotone in each of them (it grows with
-|estimate| and shrinks with the width), so the corners of the box bound it.
+|estimate| and shrinks with the width), so the corners of the box bound it - except that an
+estimate whose rounding holds the null value (OR = 1.00, MD = 0.0) may have a statistic of 0.
 
 An interval may come from a t distribution with unknown df (small samples): the p-value range
 is then widened to what any df from `MIN_DF` up would give, because the printed numbers cannot
-tell which applies. Altman and Bland note their method is approximate below about n = 60.
+tell which applies (over df >= 10 the p-value moves monotonically, so the grid's ends bound it).
+Altman and Bland note their method is approximate below about n = 60.
+
+An interval that is not symmetric around its estimate (on the working scale) was not made as
+estimate +- z_c SE: profile-likelihood intervals (R's default for odds ratios), exact and score
+intervals, bootstrap intervals. Its p-value may come from another test (a Wald z beside a
+profile interval), whose SE lies between what the two arms imply. The range of p therefore also
+takes the SE of each arm, (estimate - lower) / z_c and (upper - estimate) / z_c, wherever no
+symmetric interval rounds to the printed numbers; a lopsided interval gains in proportion to its
+lopsidedness, one that may be symmetric gains nothing.
 """
 
 from __future__ import annotations
@@ -53,22 +63,36 @@ def interval_facts(estimate: PrintedNumber, lower: PrintedNumber, upper: Printed
     """
     null = (1.0 if ratio else 0.0) if null is None else null
     transform = math.log if ratio else (lambda x: x)
-    boxes = []
+    corners = []
     for e, lo, hi in itertools.product(_limits(estimate), _limits(lower), _limits(upper)):
         if ratio and min(e, lo, hi) <= 0:
             continue
         if hi <= lo:
             continue
-        boxes.append((transform(e) - transform(null), transform(lo), transform(hi)))
-    if not boxes:
+        corners.append((transform(e), transform(lo), transform(hi)))
+    if not corners:
         raise ValueError("the interval has no width, or a ratio is not positive")
     p_values, statistics = [], []
+    e_low, e_high = _limits(estimate)
+    if e_low <= null <= e_high:
+        # the estimate may be the null value itself: |estimate| / SE is not monotone across 0,
+        # and its smallest value, 0, is not at a corner of the box
+        p_values.append(1.0)
+        statistics.append(0.0)
+    centre = transform(null)
+    # the SE from the whole width; from each arm too where no symmetric interval rounds to
+    # the printed numbers
+    lopsided = arm_ratio(estimate, lower, upper, ratio=ratio) > 1.0
     for df in _DF_GRID:
         critical = _critical(confidence, df)
-        for e, lo, hi in boxes:
-            statistic = abs(e) / ((hi - lo) / (2.0 * critical))
-            statistics.append(statistic) if math.isinf(df) else None
-            p_values.append(_two_sided_p(statistic, df))
+        for e, lo, hi in corners:
+            for spread in ((hi - lo) / 2.0, e - lo, hi - e) if lopsided else ((hi - lo) / 2.0,):
+                if spread <= 0:
+                    continue
+                statistic = abs(e - centre) / (spread / critical)
+                if math.isinf(df):
+                    statistics.append(statistic)
+                p_values.append(_two_sided_p(statistic, df))
     # does the interval exclude the null value? decided only where rounding cannot change it
     if lower.value - lower.half_unit > null or upper.value + upper.half_unit < null:
         excludes: bool | None = True
@@ -100,3 +124,34 @@ def ratio_interval(estimate: PrintedNumber, standard_error: PrintedNumber) -> In
     magnitudes = [abs(e_low), abs(e_high)]
     smallest = 0.0 if e_low <= 0.0 <= e_high else min(magnitudes)
     return Interval(smallest / s_high, max(magnitudes) / s_low)
+
+
+def arm_ratio(estimate: PrintedNumber, lower: PrintedNumber, upper: PrintedNumber,
+              ratio: bool = False) -> float:
+    """How lopsided an interval is around its estimate: the longer arm (estimate to limit)
+    over the shorter one, on the log scale for ratios, as small as the rounding of the three
+    numbers allows. 1 when the estimate may sit in the middle; inf when it may not lie strictly
+    inside its interval.
+
+    A Wald interval (estimate +- z_c SE) has arms of equal length; profile-likelihood, exact
+    and bootstrap intervals do not, so a lopsided interval is a prompt to look, not an error.
+    """
+    transform = math.log if ratio else (lambda x: x)
+    e_low, e_high = _limits(estimate)
+    l_low, l_high = _limits(lower)
+    u_low, u_high = _limits(upper)
+    if ratio:
+        if min(e_high, l_high, u_high) <= 0:
+            return math.inf
+        floor = 1e-300
+        e_low, l_low, u_low = max(e_low, floor), max(l_low, floor), max(u_low, floor)
+    # arms: lower arm grows with the estimate and shrinks with the lower limit, and so on
+    lower_arm = (transform(e_low) - transform(l_high), transform(e_high) - transform(l_low))
+    upper_arm = (transform(u_low) - transform(e_high), transform(u_high) - transform(e_low))
+    if lower_arm[1] <= 0 or upper_arm[1] <= 0:
+        return math.inf
+    if lower_arm[0] > upper_arm[1]:      # the lower arm is longer whatever the rounding
+        return lower_arm[0] / upper_arm[1]
+    if upper_arm[0] > lower_arm[1]:      # the upper arm is longer whatever the rounding
+        return upper_arm[0] / lower_arm[1]
+    return 1.0
