@@ -376,6 +376,19 @@ def test_small_sample_interval_by_mpmath():
     assert 0.0325 < t10 < 0.0330
 
 
+@pytest.mark.parametrize("text", [
+    # the p belongs to the second interval (and the second coefficient) only
+    "Failure rose at the upland sites (OR = 1.52, 95% CI [1.10, 2.10]) but not at the lowland "
+    "sites (OR = 0.80, 95% CI [0.60, 1.07], p = .13).",
+    "Mass predicted range at upland sites (b = 0.34, SE = 0.12) but not at lowland sites "
+    "(b = 0.04, SE = 0.11, p = .72).",
+])
+def test_a_p_is_not_lent_to_an_earlier_estimate(text):
+    first, second = results_for(text)
+    assert first.flags == () and first.status is Status.UNCHECKED
+    assert second.flags == () and second.status is Status.CONSISTENT
+
+
 def test_an_interval_without_a_p_is_unchecked():
     result = only_result("The effect of the playback was moderate, d = 0.45, 95% CI [0.10, 0.80].")
     assert result.status is Status.UNCHECKED and result.reason == "no p-value printed"

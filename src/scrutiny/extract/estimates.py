@@ -130,10 +130,12 @@ class _Reader:
             **parts,
         )
 
-    def p_after(self, end: int) -> regex.Match | None:
-        """A p-value printed after an estimate, before the next result or sentence end."""
+    def p_after(self, end: int, next_estimate: int) -> regex.Match | None:
+        """A p-value printed after an estimate, before the next result, the next estimate
+        (whose p it would be: "OR = 1.52 [...] and OR = 0.80 [...], p = .13") or the end of
+        the sentence."""
         next_test = bisect_right(self.test_starts, end)
-        limit = min(self.sentence(end)[1], end + _P_WINDOW,
+        limit = min(self.sentence(end)[1], end + _P_WINDOW, next_estimate,
                     self.test_starts[next_test] if next_test < len(self.test_starts) else
                     len(self.text))
         return first(self.library.scanner("p-value"), self.text, end, limit)
@@ -283,18 +285,23 @@ def _estimates(reader: _Reader) -> tuple[list[Claim], dict[int, Estimate]]:
     """Estimates of their own, and those that belong to a test result (by its index)."""
     claims: list[Claim] = []
     attached: dict[int, Estimate] = {}
-    for kind in ("interval-estimate", "coefficient"):
-        for match in reader.library.scanner(kind).finditer(reader.text):
-            estimate = _estimate(reader, match, kind)
-            owner = _owner(reader, match, kind)
-            if owner is not None:
-                if owner not in attached:
-                    attached[owner] = estimate
-                continue
-            p_match = reader.p_after(match.end())
-            end = p_match.end() if p_match is not None else match.end()
-            claims.append(reader.claim("estimate", kind, match, estimate.value, end,
-                                       p=_p_value(reader, p_match), estimate=estimate))
+    found = sorted(((match, kind) for kind in ("interval-estimate", "coefficient")
+                    for match in reader.library.scanner(kind).finditer(reader.text)),
+                   key=lambda item: item[0].start())
+    starts = [match.start() for match, _ in found]
+    for match, kind in found:
+        estimate = _estimate(reader, match, kind)
+        owner = _owner(reader, match, kind)
+        if owner is not None:
+            if owner not in attached:
+                attached[owner] = estimate
+            continue
+        following = bisect_right(starts, match.start())
+        p_match = reader.p_after(match.end(), starts[following] if following < len(starts)
+                                 else len(reader.text))
+        end = p_match.end() if p_match is not None else match.end()
+        claims.append(reader.claim("estimate", kind, match, estimate.value, end,
+                                   p=_p_value(reader, p_match), estimate=estimate))
     return claims, attached
 
 
