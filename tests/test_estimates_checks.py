@@ -523,6 +523,9 @@ def test_df_sample_mismatch_raised(text, most):
     "Speed rose with practice (N = 48), b = 0.63, SE = 0.10, t(1879.70) = 6.26, p < .001.",
     # a repeated-measures F: df2 = (3 - 1)(48 - 1) = 94 exceeds N, as it should
     "Voles (N = 48) rated three baits; ratings differed, F(2, 94) = 5.10, p = .008.",
+    # the N belongs to the chi-square printed with it
+    "Sex ratios differed, χ2(1, N = 80) = 4.10, p = .043, and males were heavier, "
+    "t(120) = 2.80, p = .006.",
     # two results in the paragraph: its N reaches neither
     "We trapped 62 voles (N = 62). Voles near the stream were heavier, t(70) = 2.31, p = .024, "
     "and older, t(70) = 2.05, p = .044.",

@@ -20,7 +20,8 @@ the only one, its paragraph) is attached too, for the check of df against the sa
 What decides whether the granularity tests may run is read here, conservatively, because a
 wrong cue raises a false alarm:
 
-* a count cue ("number of", "counts") is about a mean only in the mean's own sentence; a scale
+* a count cue ("number of", "counts") is about a mean only in the mean's own clause, close to
+  it; a scale
   cue ("7-point", "a scale from 1 to 5") also from the rest of its paragraph, and only for means
   its range can hold; a mean printed with a unit of measurement ("12.4 g", "21.3 years") is
   never taken for a mean of integer responses;
@@ -49,6 +50,10 @@ _COEFFICIENT_GAP = 40
 _RATIO_LABELS = frozenset({"OR", "aOR", "HR", "aHR", "RR", "aRR", "IRR", "aIRR", "PR"})
 #: what may stand between a coefficient (or an interval) and the test of it
 _SEPARATORS = regex.compile(r"[\s,;()\[\]]*(?:(?:Wald|Wald's|Wald’s)\s*)?")
+#: how far before (after) a mean a count cue may stand to be about it
+_COUNT_CUE_BEFORE = 60
+_COUNT_CUE_AFTER = 30
+_CLAUSE_BREAK = regex.compile(r";|\b(?:but|whereas|while|although|though|unlike)\b")
 #: numbers written as words in cue phrases ("a seven-point scale")
 _WORD_NUMBERS = {"one": 1, "two": 2, "three": 3, "four": 4, "five": 5, "six": 6, "seven": 7,
                  "eight": 8, "nine": 9, "ten": 10, "eleven": 11, "twelve": 12, "fifteen": 15,
@@ -187,7 +192,7 @@ def _integer_cue(reader: _Reader, match: regex.Match, items: float) -> str | Non
     scale = reader.pattern("integer-cue", "integer-scale")
     count = reader.pattern("integer-cue", "integer-count")
     found = [m for m in scale.finditer(reader.text, *sentence) if _scale_holds(m, mean, items)]
-    found += list(count.finditer(reader.text, *sentence))
+    found += [m for m in count.finditer(reader.text, *sentence) if _count_is_about(reader, m, match)]
     if not found:
         found = [m for m in scale.finditer(reader.text, *reader.paragraph(position))
                  if _scale_holds(m, mean, items)]
@@ -195,6 +200,22 @@ def _integer_cue(reader: _Reader, match: regex.Match, items: float) -> str | Non
         return None
     nearest = min(found, key=lambda m: abs(m.start() - position))
     return WHITESPACE.sub(" ", nearest.group()).strip()
+
+
+def _count_is_about(reader: _Reader, cue: regex.Match, match: regex.Match) -> bool:
+    """Is a count cue ("number of") about this mean? Only when it stands close before it
+    ("the number of eggs was M = 4.20") or right after it ("2.35 on the count of seeds"), in
+    the same clause: "the number of visits did not differ, but the index did (M = 3.48)" is
+    about the visits."""
+    if cue.end() <= match.start():
+        between = reader.text[cue.end():match.start()]
+        reach = _COUNT_CUE_BEFORE
+    elif cue.start() >= match.end():
+        between = reader.text[match.end():cue.start()]
+        reach = _COUNT_CUE_AFTER
+    else:
+        return True
+    return len(between) <= reach and _CLAUSE_BREAK.search(between) is None
 
 
 def _not_a_raw_mean(reader: _Reader, position: int) -> bool:
@@ -250,6 +271,11 @@ def _descriptives(reader: _Reader) -> list[Claim]:
 def _inside_test_result(reader: _Reader, position: int) -> bool:
     index = reader.test_containing(position)
     return index is not None and position < reader.test_ends[index]
+
+
+def _inside_other_result(reader: _Reader, position: int, index: int) -> bool:
+    other = reader.test_containing(position)
+    return other is not None and other != index and position < reader.test_ends[other]
 
 
 def _proportions(reader: _Reader) -> list[Claim]:
@@ -350,8 +376,11 @@ def _sample_sizes(reader: _Reader) -> dict[int, str]:
         if first(observations, reader.text, min(sentence[0], paragraph[0]),
                  max(sentence[1], paragraph[1])):
             continue  # trials, observations, a mixed model: the df need not count the N
-        mentions = list(scanner.finditer(reader.text, *sentence))
-        if not mentions:
+        # an N printed inside another result of the sentence ("χ2(1, N = 80) = 4.10") is
+        # that result's, and the sentence has said what its N are
+        printed = list(scanner.finditer(reader.text, *sentence))
+        mentions = [m for m in printed if not _inside_other_result(reader, m.start(), index)]
+        if not printed:
             key = reader.boundaries.paragraph(position, len(reader.text))[0]
             if paragraph_results.get(key, 0) == 1:
                 mentions = list(scanner.finditer(reader.text, *paragraph))
