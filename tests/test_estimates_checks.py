@@ -312,6 +312,10 @@ def test_weighted_percentages_are_not_checked(text):
     ("Fencing did not change the odds, OR = 1.20, 95% CI [0.90, 1.60], p = .01.", "includes 1"),
     # a correlation's interval includes 0
     ("Depth and mass were unrelated, r = .19, 95% CI [-.11, .47], p = .02.", "includes 0"),
+    # at the boundary itself: the interval holds 1 even at 0.995, so p < .05 cannot be (the
+    # rounding of the three numbers alone would allow p down to .049)
+    ("Shade did not change the odds, OR = 1.20, 95% CI [0.99, 1.45], p < .05.", "includes 1"),
+    ("Shade changed the odds, OR = 1.20, 95% CI [1.01, 1.43], p ≥ .05.", "excludes 1"),
     # the d interval printed after a t includes 0, the t's p is below .05
     ("Upland voles dug deeper, t(58) = 2.10, p = .040, d = 0.54, 95% CI [-0.02, 1.10].",
      "includes 0"),
@@ -350,6 +354,11 @@ def test_the_hazard_ratio_example_by_mpmath():
     "The odds rose, OR = 1.20, 95% CI [1.00, 1.44], p = .049.",
     "The odds rose, OR = 1.20, 95% CI [1.00, 1.44], p = .06.",
     "Depth rose, MD = 0.50, 95% CI [0.00, 1.00], p = .05.",
+    # near the boundary, a p printed with its rounding may lie either side
+    "Shade did not change the odds, OR = 1.20, 95% CI [0.99, 1.45], p = .06.",
+    "Shade did not change the odds, OR = 1.20, 95% CI [0.99, 1.45], p = .05.",
+    "Shade changed the odds, OR = 1.20, 95% CI [1.01, 1.43], p = .05.",
+    "Shade changed the odds, OR = 1.20, 95% CI [1.01, 1.43], p ≤ .05.",
     # a 90% interval excludes 0 while p = .07 < .10 (a 95% reading would cry foul)
     "Wing length fell, MD = -1.20, 90% CI [-2.30, -0.10], p = .07.",
     # a profile-likelihood interval beside a Wald p: 5/40 v 12/40 events, Wald p = .058

@@ -48,11 +48,13 @@ def ci_p_mismatch(claim: Claim, recomputed: Recomputed, context: Context,
     level = (float(estimate.level) / 100.0) if estimate.level else 0.95
     threshold = 1.0 - level
     null = "1" if estimate.ratio else "0"
-    if facts.excludes_null is True and reported.low >= threshold + 1e-12:
+    # "p < .05" beside an interval that holds the null, or "p > .05" beside one that excludes
+    # it, contradict it at the boundary itself (1e-12: the float error of 1 - 0.95)
+    if facts.excludes_null is True and reported.low >= threshold - 1e-12:
         yield Finding(f"{describe_estimate(claim)} excludes {null}, so p < {threshold:.2g}; "
                       f"the printed {describe_p(claim)} says otherwise.")
         return
-    if facts.excludes_null is False and reported.high < threshold - 1e-12:
+    if facts.excludes_null is False and reported.high <= threshold + 1e-12:
         yield Finding(f"{describe_estimate(claim)} includes {null}, so p >= {threshold:.2g}; "
                       f"the printed {describe_p(claim)} says otherwise.")
         return
