@@ -40,6 +40,7 @@ import regex
 
 from ..model import Claim, Descriptive, Document, Estimate, Proportion, PValue
 from ..patterns import Library
+from ..rounding import UnreadableNumber, parse_printed
 from .context import PARAGRAPH_REACH, WHITESPACE, Boundaries, first
 from .statistics import comparator
 
@@ -186,7 +187,10 @@ def _integer_cue(reader: _Reader, match: regex.Match, items: float) -> str | Non
     """The words that say this mean is of integer-valued data, if any (see the module notes)."""
     if match.captures("unit"):
         return None  # "12.4 g", "21.3 years": a measurement
-    mean = _number(match.group("mean").replace("- ", "-"))
+    try:
+        mean: float | None = parse_printed(match.group("mean")).value
+    except UnreadableNumber:
+        mean = None
     position = match.start()
     sentence = reader.sentence(position)
     scale = reader.pattern("integer-cue", "integer-scale")
@@ -243,9 +247,8 @@ def _descriptives(reader: _Reader) -> list[Claim]:
     claims = []
     for match in matches:
         sd = reader.printed(match, "sd")
-        pattern = reader.library.matched_pattern("descriptive", match)
         sentence = reader.sentence(match.start())
-        if pattern.id == "mean-plus-minus" and (
+        if match.captures("plus_minus") and (
                 se_convention or first(stated_se, reader.text, *sentence)):
             sd = None  # "mean ± SE", or a CI's half-width: the number after ± is not an SD
         n = reader.printed(match, "n")
