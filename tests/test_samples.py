@@ -27,8 +27,10 @@ MANUSCRIPT_SUFFIXES = {".txt", ".md"}
 
 #: the checks the samples must exercise between them
 PLANTED_CHECKS = {"p-mismatch", "decision-flip", "undeclared-one-sided", "one-sided",
-                  "negligible-effect", "impossible-value", "p-zero"}
-FAMILIES = {"t", "F", "chi2", "r", "z"}
+                  "negligible-effect", "impossible-value", "p-zero", "effect-mismatch",
+                  "grim", "grimmer", "percent-mismatch", "ci-p-mismatch",
+                  "ci-estimate-mismatch", "coefficient-mismatch", "df-sample-mismatch"}
+FAMILIES = {"t", "F", "chi2", "r", "z", "mean", "percent", "estimate"}
 MINIMUM_RESULTS = 40
 
 
