@@ -114,13 +114,18 @@ def test_caliper_bounds_follow_the_definition():
 
 # -- the runner ------------------------------------------------------------------------------
 
+#: the bundled sample manuscripts; the corpus below is them and one unreadable file (FILES in all)
+MANUSCRIPTS = sorted(sample for sample in (REPOSITORY / "samples").iterdir()
+                     if sample.suffix in (".md", ".txt") and sample.name != "README.md")
+FILES = len(MANUSCRIPTS) + 1
+
+
 @pytest.fixture
 def corpus(tmp_path):
     folder = tmp_path / "issue"
     folder.mkdir()
-    for sample in (REPOSITORY / "samples").iterdir():
-        if sample.suffix in (".md", ".txt") and sample.name != "README.md":
-            shutil.copy(sample, folder / sample.name)
+    for sample in MANUSCRIPTS:
+        shutil.copy(sample, folder / sample.name)
     (folder / "broken.txt").write_bytes(b"\x00\x01\x02" * 50)
     return folder
 
@@ -128,26 +133,26 @@ def corpus(tmp_path):
 def test_screen_stores_every_document_and_summarises(corpus, tmp_path):
     store = str(tmp_path / "screening.sqlite")
     screening = screen([str(corpus)], store, workers=2)
-    assert (screening.checked, screening.already_stored, screening.unreadable) == (5, 0, 1)
+    assert (screening.checked, screening.already_stored, screening.unreadable) == (FILES, 0, 1)
     summary = summarise(store)
-    assert summary.documents == 5 and summary.unreadable == 1
+    assert summary.documents == FILES and summary.unreadable == 1
     # the samples' planted flags (samples/expected-flags.toml) arrive in the summary
     assert summary.flags["decision-flip"] >= 4
     assert summary.p_curve.significant > 20
     rows = sqlite3.connect(store).execute("SELECT path, readable FROM documents").fetchall()
-    assert len(rows) == 5 and sum(readable for _, readable in rows) == 4
+    assert len(rows) == FILES and sum(readable for _, readable in rows) == FILES - 1
 
 
 def test_screen_resumes_and_rechecks_changed_files(corpus, tmp_path):
     store = str(tmp_path / "screening.sqlite")
     screen([str(corpus)], store, workers=1)
     again = screen([str(corpus)], store, workers=1)
-    assert (again.checked, again.already_stored) == (0, 5)
+    assert (again.checked, again.already_stored) == (0, FILES)
     (corpus / "broken.txt").write_text("Burrows differed, t(28) = 2.20, p = .01.\n")
     changed = screen([str(corpus)], store, workers=1)
-    assert (changed.checked, changed.already_stored) == (1, 4)
+    assert (changed.checked, changed.already_stored) == (1, FILES - 1)
     restarted = screen([str(corpus)], store, workers=1, resume=False)
-    assert restarted.checked == 5
+    assert restarted.checked == FILES
 
 
 def test_parallel_and_serial_screens_agree(corpus, tmp_path):
@@ -162,17 +167,17 @@ def test_other_settings_are_a_separate_screening(corpus, tmp_path):
     store = str(tmp_path / "screening.sqlite")
     screen([str(corpus)], store, workers=1)
     strict = Settings(alpha=0.01)
-    assert screen([str(corpus)], store, strict, workers=1).checked == 5
+    assert screen([str(corpus)], store, strict, workers=1).checked == FILES
     with pytest.raises(Exception, match="different settings"):
         summarise(store)
-    assert summarise(store, strict).documents == 5
+    assert summarise(store, strict).documents == FILES
 
 
 def test_dask_local_cluster(corpus, tmp_path):
     pytest.importorskip("distributed")
     store = str(tmp_path / "dask.sqlite")
     screening = screen([str(corpus)], store, workers=2, scheduler="local")
-    assert screening.checked == 5
+    assert screening.checked == FILES
     assert summarise(store).flags == summarise_serial(corpus, tmp_path).flags
 
 
@@ -200,7 +205,7 @@ def test_screen_and_summary_commands(corpus, tmp_path):
                           "--format", "json")
     report = json.loads(out)
     assert code == 0
-    assert report["run"]["checked"] == 5 and report["documents"] == 5
+    assert report["run"]["checked"] == FILES and report["documents"] == FILES
     assert "p_curve" in report and len(report["caliper"]) == 4
     assert "broken.txt: binary file" in err
     code, out, _ = _run("summary", store)
