@@ -1,12 +1,17 @@
 """Generate a long invented manuscript with a known number of reported results.
 
 Used by the benchmarks; deterministic for a given seed. About 400 bytes of prose per result,
-so 5,000 results make a file of roughly 2 MB.
+so 5,000 results make a file of roughly 2 MB. Two results in three are tests (t, F, chi-square,
+r, z); the rest are the numbers around tests: means with SD and n on a rating scale,
+percentages with their base, estimates with confidence intervals, and coefficients with a
+standard error beside their t.
 """
 
 from __future__ import annotations
 
+import math
 import random
+import statistics
 
 from scipy import stats
 
@@ -18,7 +23,28 @@ PROSE = (
 
 
 def _result(rng: random.Random) -> str:
-    family = rng.choice(["t", "F", "chi2", "r", "z"])
+    family = rng.choice(["t", "F", "chi2", "r", "z", "t", "F", "chi2", "r", "z",
+                         "mean", "percent", "estimate", "coefficient", "estimate"])
+    if family == "mean":
+        ratings = [rng.randint(1, 7) for _ in range(rng.randint(10, 60))]
+        return (f"on the 7-point scale (M = {statistics.mean(ratings):.2f}, "
+                f"SD = {statistics.stdev(ratings):.2f}, n = {len(ratings)})")
+    if family == "percent":
+        base = rng.randint(20, 400)
+        count = rng.randint(0, base)
+        return f"and {count} of {base} ({100 * count / base:.1f}%) returned to the nest"
+    if family == "estimate":
+        log_ratio, se = rng.uniform(-1.0, 1.0), rng.uniform(0.1, 0.4)
+        low, high = math.exp(log_ratio - 1.96 * se), math.exp(log_ratio + 1.96 * se)
+        p = 2 * stats.norm.sf(abs(log_ratio) / se)
+        return (f"OR = {math.exp(log_ratio):.2f}, 95% CI [{low:.2f}, {high:.2f}], "
+                f"p {_p(p)}")
+    if family == "coefficient":
+        df, se = rng.randint(30, 300), rng.uniform(0.05, 0.5)
+        b = rng.uniform(-4, 4) * se
+        t = round(b, 2) / round(se, 2) if round(se, 2) else 0.0
+        return (f"b = {b:.2f}, SE = {se:.2f}, t({df}) = {t:.2f}, "
+                f"p {_p(2 * stats.t.sf(abs(round(t, 2)), df))}")
     if family == "t":
         df = rng.randint(8, 300)
         t = rng.uniform(0.2, 5.0)

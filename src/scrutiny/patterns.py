@@ -71,7 +71,11 @@ class Library:
         return self.scanners[kind]
 
     def matched_pattern(self, kind: str, match: regex.Match) -> Pattern:
-        """Which pattern of `kind` produced a match of `scanner(kind)`."""
+        """Which pattern of `kind` produced a match of `scanner(kind)` (or of one pattern's own
+        regex, as `find_all` returns them)."""
+        for pattern in self.by_kind[kind]:
+            if match.re is pattern.compiled:
+                return pattern
         groups = match.groups()
         for pattern, group in zip(self.by_kind[kind], self.branch_groups[kind]):
             if groups[group - 1] is not None:

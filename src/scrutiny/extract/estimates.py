@@ -41,7 +41,7 @@ import regex
 from ..model import Claim, Descriptive, Document, Estimate, Proportion, PValue
 from ..patterns import Library
 from ..rounding import UnreadableNumber, parse_printed
-from .context import PARAGRAPH_REACH, WHITESPACE, Boundaries, first
+from .context import PARAGRAPH_REACH, WHITESPACE, Boundaries, find_all, first, lowered_ascii
 from .statistics import comparator
 
 #: how far after an estimate its p-value may be printed
@@ -74,10 +74,16 @@ class _Reader:
         # test results by their start in the normalised text, for "which result is this in"
         self.test_starts = [document.normalised_offset(c.location.start) for c in tests]
         self.test_ends = [document.normalised_offset(c.location.end) for c in tests]
+        # for keyword-guided whole-text searches (find_all)
+        self.lowered = lowered_ascii(self.text)
+
+    def find_all(self, kind: str) -> list[regex.Match]:
+        """Every match of `kind` in the text, searched only near the patterns' keywords."""
+        return find_all(self.library, kind, self.text, self.lowered)
 
     def printed(self, match: regex.Match, group: str) -> str | None:
-        if match.group(group) is None:
-            return None
+        if group not in match.re.groupindex or match.group(group) is None:
+            return None  # the pattern has no such part, or this match left it out
         start, end = match.span(group)
         return sys.intern(self.document.text[self.document.original_offset(start):
                                              self.document.original_offset(end)])
@@ -167,6 +173,11 @@ def _number(printed: str | None) -> float | None:
         return None
 
 
+def _captured(match: regex.Match, group: str) -> bool:
+    """Did the match take this named part (which some patterns of a kind do not have)?"""
+    return group in match.re.groupindex and bool(match.captures(group))
+
+
 def _scale_holds(cue: regex.Match, mean: float | None, items: float) -> bool:
     """Can a mean on the scale this cue describes take this value? A 7-point scale holds means
     up to 7 (up to 7 x items for sum scores), a scale from 1 to 5 means from 1 up; a cue whose
@@ -185,7 +196,7 @@ def _scale_holds(cue: regex.Match, mean: float | None, items: float) -> bool:
 
 def _integer_cue(reader: _Reader, match: regex.Match, items: float) -> str | None:
     """The words that say this mean is of integer-valued data, if any (see the module notes)."""
-    if match.captures("unit"):
+    if _captured(match, "unit"):
         return None  # "12.4 g", "21.3 years": a measurement
     try:
         mean: float | None = parse_printed(match.group("mean")).value
@@ -231,7 +242,7 @@ def _not_a_raw_mean(reader: _Reader, position: int) -> bool:
 
 
 def _descriptives(reader: _Reader) -> list[Claim]:
-    matches = [match for match in reader.library.scanner("descriptive").finditer(reader.text)
+    matches = [match for match in reader.find_all("descriptive")
                if not _inside_test_result(reader, match.start())
                and not _not_a_raw_mean(reader, match.start())]
     per_sentence: dict[int, int] = {}
@@ -248,7 +259,7 @@ def _descriptives(reader: _Reader) -> list[Claim]:
     for match in matches:
         sd = reader.printed(match, "sd")
         sentence = reader.sentence(match.start())
-        if match.captures("plus_minus") and (
+        if _captured(match, "plus_minus") and (
                 se_convention or first(stated_se, reader.text, *sentence)):
             sd = None  # "mean ± SE", or a CI's half-width: the number after ± is not an SD
         n = reader.printed(match, "n")
@@ -284,7 +295,7 @@ def _inside_other_result(reader: _Reader, position: int, index: int) -> bool:
 def _proportions(reader: _Reader) -> list[Claim]:
     claims = []
     weighted = reader.pattern("weighted-cue", "weighted")
-    for match in reader.library.scanner("proportion").finditer(reader.text):
+    for match in reader.find_all("proportion"):
         sentence = reader.sentence(match.start())
         proportion = Proportion(
             percent=reader.printed(match, "percent") or "",
@@ -315,7 +326,7 @@ def _estimates(reader: _Reader) -> tuple[list[Claim], dict[int, Estimate]]:
     claims: list[Claim] = []
     attached: dict[int, Estimate] = {}
     found = sorted(((match, kind) for kind in ("interval-estimate", "coefficient")
-                    for match in reader.library.scanner(kind).finditer(reader.text)),
+                    for match in reader.find_all(kind)),
                    key=lambda item: item[0].start())
     starts = [match.start() for match, _ in found]
     for match, kind in found:
