@@ -25,6 +25,7 @@ from __future__ import annotations
 
 import re
 import sys
+from dataclasses import replace
 
 import regex
 
@@ -42,6 +43,10 @@ _COMPARATORS = {
 
 _ALL_BEFORE = regex.compile(r"(?i:\ball|\bboth|\beach)\s+$")
 _ONLY_SEPARATORS = regex.compile(r"[\s,;]*")
+#: what may stand between results that share one plural p: separators, "and", "or", a short
+#: label ("for odour") or a parenthesis ("(Table 2)")
+_ONLY_CONNECTIVES = regex.compile(
+    r"(?:[\s,;]|\band\b|\bor\b|\bfor(?:[ ][\w-]+){1,3}|\([^()]{0,40}\))*")
 #: how far before a statistic its degrees of freedom may be printed ("df = 2, 87, F = ...")
 _DF_BEFORE = 30
 #: how far before a statistic an R squared may be printed ("R2 = .39, F(5, 611) = 78.92")
@@ -110,12 +115,33 @@ def find_test_results(document: Document, library: Library,
     """Every test result printed in `document`, in the order of the text."""
     text = document.normalised
     heads = _with_their_p(statistic_heads(text, library), text, library, boundaries)
-    claims: list[Claim] = []
+    found: list[tuple[Claim, regex.Match, regex.Match | None]] = []
     for index, head in enumerate(heads):
         next_head = heads[index + 1].start() if index + 1 < len(heads) else len(text)
-        claim = _claim_at(document, library, boundaries, head, next_head)
+        claim, p_match = _claim_at(document, library, boundaries, head, next_head)
         if claim is not None:
-            claims.append(claim)
+            found.append((claim, head, p_match))
+    return _share_plural_p(found, text, boundaries)
+
+
+def _share_plural_p(found: list[tuple[Claim, regex.Match, regex.Match | None]], text: str,
+                    boundaries: Boundaries) -> list[Claim]:
+    """A plural p ("ps < .05") after several results is the bound of each of them:
+    "F(1, 76) = 18.44 and F(1, 76) = 5.03, ps < .05" gives the first F the bound too (as an
+    aggregate), when the two sit in one sentence with only connectives between them."""
+    claims = [claim for claim, _, _ in found]
+    shares = [p_match is not None and bool(p_match.group("p_plural")) for _, _, p_match in found]
+    for index in range(len(found) - 2, -1, -1):
+        head, later_head = found[index][1], found[index + 1][1]
+        if claims[index].p is not None or not shares[index + 1]:
+            continue
+        if boundaries.sentence(head.start(), len(text)) != \
+                boundaries.sentence(later_head.start(), len(text)):
+            continue
+        if not _ONLY_CONNECTIVES.fullmatch(text, head.end(), later_head.start()):
+            continue
+        claims[index] = replace(claims[index], p=claims[index + 1].p, aggregate=True)
+        shares[index] = True
     return claims
 
 
@@ -199,7 +225,8 @@ def _df_just_after(library: Library, text: str, p_end: int, end: int,
 
 
 def _claim_at(document: Document, library: Library, boundaries: Boundaries,
-              head: regex.Match, next_head: int) -> Claim | None:
+              head: regex.Match, next_head: int) -> tuple[Claim | None, regex.Match | None]:
+    """The result that starts at `head`, and the match of its p-value if one is printed."""
     text = document.normalised
     pattern = library.matched_pattern("statistic", head)
     sentence_start, sentence_end = boundaries.sentence(head.start(), len(text))
@@ -212,7 +239,7 @@ def _claim_at(document: Document, library: Library, boundaries: Boundaries,
     ns_end = p_match.start() if p_match else window_end
     ns_match = first(library.scanner("not-significant"), text, head.end(), ns_end)
     if pattern.needs_p and p_match is None and ns_match is None:
-        return None
+        return None, None
 
     def printed(match: regex.Match, group: str) -> str | None:
         """A group's text exactly as printed in the original file."""
@@ -284,7 +311,7 @@ def _claim_at(document: Document, library: Library, boundaries: Boundaries,
     end_original = document.original_offset(end)
     sentence = document.text[document.original_offset(sentence_start):
                              document.original_offset(sentence_end)]
-    return Claim(
+    claim = Claim(
         test=pattern.test or "",
         df=df,
         statistic=printed(head, "statistic") or "",
@@ -301,6 +328,7 @@ def _claim_at(document: Document, library: Library, boundaries: Boundaries,
         aggregate=aggregate,
         pattern=pattern.id,
     )
+    return claim, p_match
 
 
 __all__ = ["PARAGRAPH_REACH", "WINDOW", "find_test_results", "statistic_heads"]
