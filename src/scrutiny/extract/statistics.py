@@ -43,6 +43,9 @@ _COMPARATORS = {
 
 _ALL_BEFORE = regex.compile(r"(?i:\ball|\bboth|\beach)\s+$")
 _ONLY_SEPARATORS = regex.compile(r"[\s,;]*")
+#: words that turn a plural p after a single result to other results
+_CONTRAST = regex.compile(r"(?i)\b(?:whereas|while|but|although|though|unlike|except|"
+                          r"(?:the|all)[ ](?:other|others|remaining|rest))\b")
 #: what may stand between results that share one plural p: separators, "and", "or", a short
 #: label ("for odour") or a parenthesis ("(Table 2)")
 _ONLY_CONNECTIVES = regex.compile(
@@ -236,6 +239,10 @@ def _claim_at(document: Document, library: Library, boundaries: Boundaries,
         window_end = other_test.start()
 
     p_match = first(library.scanner("p-value"), text, head.end(), window_end)
+    if p_match is not None and p_match.group("p_plural") and not head.group("plural") \
+            and _CONTRAST.search(text, head.end(), p_match.start()):
+        # "t(20) = 1.20 was not reliable, whereas the others were, ps < .05": the others' p
+        p_match = None
     ns_end = p_match.start() if p_match else window_end
     ns_match = first(library.scanner("not-significant"), text, head.end(), ns_end)
     if pattern.needs_p and p_match is None and ns_match is None:
