@@ -1,9 +1,11 @@
 """The command line: a thin shell over `scrutiny.api`.
 
-    scrutiny check PATH... [--format text|json] [--alpha A] [--fail-on SEVERITY]
-                           [--sesoi MEASURE=VALUE]...
+    scrutiny check PATH... [--format text|json|csv|sarif|html] [--output FILE]
+                           [--alpha A] [--fail-on SEVERITY] [--sesoi MEASURE=VALUE]...
     scrutiny screen PATH... --store FILE [--workers N] [--dask ADDRESS] [--restart]
-    scrutiny summary FILE  the corpus view of a screening store
+                           [--format text|json|csv] [--output FILE]
+    scrutiny summary FILE [--format text|json|csv] [--output FILE]
+                           the corpus view of a screening store (csv: its results, a row each)
     scrutiny checks        list every check with the statistics behind it
 
 Exit codes: 0 no flag at or above --fail-on; 1 flags at or above it; 2 bad usage, or an input
@@ -13,7 +15,10 @@ that could not be read (the other inputs are still checked and reported).
 from __future__ import annotations
 
 import argparse
+import io
+import os
 import sys
+import tempfile
 from typing import Sequence, TextIO
 
 from . import __version__
@@ -21,9 +26,10 @@ from .api import check_paths
 from .check import REGISTRY
 from .errors import ScrutinyError, UsageError
 from .model import Run, Settings, Severity
-from .report import FORMATS, render
+from .report import FORMATS, SUMMARY_FORMATS, render
+from .report.csv import write_rows
 from .report.summary import render_summary
-from .screen import screen, summarise
+from .screen import screen, stored_documents, summarise
 
 EXIT_OK, EXIT_FLAGS, EXIT_USAGE = 0, 1, 2
 _SESOI_KEYS = {"d": "sesoi_d", "r": "sesoi_r", "eta2": "sesoi_eta2", "w": "sesoi_w"}
@@ -95,7 +101,10 @@ def build_parser() -> tuple[argparse.ArgumentParser, dict[str, argparse.Argument
                        help="manuscript files, folders (searched recursively) or - for "
                             "standard input")
     check.add_argument("--format", choices=FORMATS, default="text",
-                       help="report format (default: text)")
+                       help="report format: a terminal table, JSON (the machine contract), CSV "
+                            "(a row per result), SARIF 2.1.0 or a self-contained HTML page "
+                            "(default: text)")
+    _output_option(check)
     check.add_argument("--fail-on", choices=[s.label for s in Severity] + ["never"],
                        default="error",
                        help="exit with 1 when a flag of this severity or higher is raised "
@@ -116,18 +125,29 @@ def build_parser() -> tuple[argparse.ArgumentParser, dict[str, argparse.Argument
                              "for a Dask cluster on this machine")
     screen.add_argument("--restart", action="store_true",
                         help="check every document again, also those already stored")
-    screen.add_argument("--format", choices=FORMATS, default="text",
-                        help="summary format (default: text)")
+    screen.add_argument("--format", choices=SUMMARY_FORMATS, default="text",
+                        help="summary format; csv gives the screening's results, a row each "
+                             "(default: text)")
+    _output_option(screen)
     _settings_options(screen)
     summary = commands.add_parser(
         "summary", help="summarise a screening store (flags, p-curve, caliper)",
         description="Summarise the documents of a screening store.")
     summary.add_argument("store", metavar="FILE", help="the SQLite file of a screening")
-    summary.add_argument("--format", choices=FORMATS, default="text",
-                         help="summary format (default: text)")
+    summary.add_argument("--format", choices=SUMMARY_FORMATS, default="text",
+                         help="summary format; csv gives the screening's results, a row each "
+                              "(default: text)")
+    _output_option(summary)
     checks = commands.add_parser("checks", help="list every check and the statistics behind it",
                                  description="List every check scrutiny runs.")
     return parser, {"check": check, "checks": checks, "screen": screen, "summary": summary}
+
+
+def _output_option(command: argparse.ArgumentParser) -> None:
+    command.add_argument("-o", "--output", metavar="FILE", default=None,
+                         help="write the report to FILE (UTF-8) instead of standard output; "
+                              "FILE is replaced only once the report is complete, and may not "
+                              "be an input or lie in an input folder")
 
 
 def _settings_options(command: argparse.ArgumentParser) -> None:
@@ -179,6 +199,53 @@ def exit_code(run: Run, fail_on: str) -> int:
     return EXIT_FLAGS if flagged else EXIT_OK
 
 
+def _refuse_output_among_inputs(output: str, inputs: Sequence[str]) -> None:
+    """A report must never overwrite a manuscript, nor land where the next run would read it."""
+    target = os.path.realpath(output)
+    for given in inputs:
+        if given == "-":
+            continue
+        source = os.path.realpath(given)
+        if target == source:
+            raise UsageError(f"--output {output} is one of the inputs; choose another file")
+        if os.path.isdir(source) and os.path.commonpath([source, target]) == source:
+            raise UsageError(f"--output {output} lies in the input folder {given}; a later run "
+                             f"would read the report as a manuscript")
+    if os.path.isdir(target):
+        raise UsageError(f"--output {output} is a folder; give a file name")
+
+
+def _deliver(text: str, output: str | None, stdout: TextIO) -> None:
+    """Write a finished report to `output` (atomically, UTF-8) or to standard output."""
+    if output is None:
+        stdout.write(text)
+        stdout.flush()
+        return
+    folder = os.path.dirname(os.path.abspath(output))
+    try:
+        handle, temporary = tempfile.mkstemp(prefix=".scrutiny-", dir=folder)
+    except OSError as exc:
+        raise UsageError(f"--output {output}: cannot write there ({exc.strerror})") from None
+    try:
+        with os.fdopen(handle, "w", encoding="utf-8", newline="") as stream:
+            stream.write(text)
+        os.replace(temporary, output)
+    except OSError as exc:
+        os.unlink(temporary)
+        raise UsageError(f"--output {output}: cannot be written ({exc.strerror})") from None
+
+
+def _render_summary(args: argparse.Namespace, store: str, settings: Settings | None,
+                    screening=None) -> str:
+    buffer = io.StringIO()
+    if args.format == "csv":
+        write_rows((document.result for document in stored_documents(store, settings)), buffer)
+    else:
+        render_summary(summarise(store, settings), args.format, buffer, screening,
+                       width=None if args.output is None else 120)
+    return buffer.getvalue()
+
+
 def _list_checks(stream: TextIO) -> None:
     for registered in REGISTRY.values():
         stream.write(f"{registered.id} ({registered.severity.label}): {registered.title}\n")
@@ -198,7 +265,7 @@ def _screen(args: argparse.Namespace, settings: Settings, stdout: TextIO,
 
     screening = screen(args.paths, args.store, settings, workers=args.workers,
                        scheduler=args.dask, resume=not args.restart, progress=progress)
-    render_summary(summarise(args.store, settings), args.format, stdout, screening)
+    _deliver(_render_summary(args, args.store, settings, screening), args.output, stdout)
     return EXIT_OK
 
 
@@ -215,21 +282,31 @@ def main(argv: Sequence[str] | None = None, stdout: TextIO | None = None,
             _list_checks(stdout)
             return EXIT_OK
         if args.command == "summary":
-            render_summary(summarise(args.store), args.format, stdout)
+            if args.output is not None:
+                _refuse_output_among_inputs(args.output, [args.store])
+            _deliver(_render_summary(args, args.store, None), args.output, stdout)
             return EXIT_OK
         settings = Settings(alpha=args.alpha, integer_scales=args.integer_scales,
                             prior_scale=args.prior_scale,
                             prior_null=args.prior_null, time_limit=args.time_limit,
                             memory_limit_mb=int(args.memory_limit),
                             **{_SESOI_KEYS[key]: value for key, value in args.sesoi})
+        if args.output is not None:
+            _refuse_output_among_inputs(args.output, [*args.paths, *(
+                [args.store] if args.command == "screen" else [])])
         if args.command == "screen":
             return _screen(args, settings, stdout, stderr)
         run = check_paths(args.paths, settings=settings)
         for document in run.documents:
             for error in document.errors:
                 stderr.write(f"scrutiny: {document.path}: {error}\n")
-        render(run, args.format, stdout)
-        stdout.flush()
+        if args.output is None:
+            render(run, args.format, stdout)
+            stdout.flush()
+        else:
+            buffer = io.StringIO()
+            render(run, args.format, buffer, width=120)
+            _deliver(buffer.getvalue(), args.output, stdout)
         return exit_code(run, args.fail_on)
     except ScrutinyError as exc:  # bad usage, an unusable store: one line, exit 2
         stderr.write(f"scrutiny: error: {exc}\n")

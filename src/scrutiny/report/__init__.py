@@ -1,7 +1,9 @@
 """report: renderers from results to text. They format; they never compute statistics.
 
-`render(run, format, stream)` writes a whole run in one of `FORMATS`. Every format carries the
-caution that a flag is a prompt to look, not proof of error or misconduct.
+`render(run, format, stream)` writes a whole run in one of `FORMATS`: `text` (a terminal
+table), `json` (the machine contract), `csv` (a row per result), `sarif` (SARIF 2.1.0, the
+flags as results) and `html` (one self-contained page). Every format carries the caution that
+a flag is a prompt to look, not proof of error or misconduct.
 """
 
 from __future__ import annotations
@@ -12,7 +14,10 @@ from typing import TextIO
 
 from ..model import Run, Status
 
-FORMATS = ("text", "json")
+#: formats of a check's report
+FORMATS = ("text", "json", "csv", "sarif", "html")
+#: formats of a screening's summary ("csv": the stored results, a row each)
+SUMMARY_FORMATS = ("text", "json", "csv")
 
 #: the caution every report carries, in every format
 CAUTION = ("A flag is a prompt to look, not proof of error or misconduct: typos, corrections "
@@ -73,7 +78,7 @@ class Summary:
 
 
 def render(run: Run, format: str, stream: TextIO, *, width: int | None = None) -> None:
-    """Write `run` to `stream` in `format` ("text" or "json")."""
+    """Write `run` to `stream` in one of `FORMATS`."""
     if format == "json":
         from .json import render_json
 
@@ -82,8 +87,20 @@ def render(run: Run, format: str, stream: TextIO, *, width: int | None = None) -
         from .text import render_text
 
         render_text(run, stream, width=width)
+    elif format == "csv":
+        from .csv import render_csv
+
+        render_csv(run, stream)
+    elif format == "sarif":
+        from .sarif import render_sarif
+
+        render_sarif(run, stream)
+    elif format == "html":
+        from .html import render_html
+
+        render_html(run, stream)
     else:
         raise ValueError(f"unknown format {format!r} (choose from {', '.join(FORMATS)})")
 
 
-__all__ = ["CAUTION", "FORMATS", "Summary", "render"]
+__all__ = ["CAUTION", "FORMATS", "SUMMARY_FORMATS", "Summary", "render"]

@@ -22,7 +22,7 @@ from ..model import Settings
 from ..patterns import load_library
 from ..rounding import UnreadableNumber, parse_printed
 from .corpus import Caliper, PCurve, caliper_tests, harmonise, p_curve
-from .store import Store, StoreError, file_digest, settings_key
+from .store import Store, StoredDocument, StoreError, file_digest, settings_key
 
 Progress = Callable[[int, int, str, dict], None]
 
@@ -185,8 +185,10 @@ class CorpusSummary:
     notes: list[str] = field(default_factory=list)
 
 
-def summarise(store_path: str, settings: Settings | None = None) -> CorpusSummary:
-    """The corpus view of a store (of one settings key: the given one, else the only one)."""
+def _screening(store_path: str, settings: Settings | None) -> tuple[str | None,
+                                                                    list[StoredDocument]]:
+    """The settings key and the documents of one screening in a store: of the given settings,
+    else of the only settings the store holds."""
     if not os.path.exists(store_path):
         raise StoreError(f"{store_path}: no such screening store")
     with Store(store_path) as store:
@@ -198,7 +200,18 @@ def summarise(store_path: str, settings: Settings | None = None) -> CorpusSummar
         else:
             raise UsageError(f"{store_path} holds screenings with {len(keys)} different settings;"
                              " give the settings of the one to summarise")
-        documents = list(store.documents(key)) if key is not None else []
+        return key, (list(store.documents(key)) if key is not None else [])
+
+
+def stored_documents(store_path: str, settings: Settings | None = None) -> list[StoredDocument]:
+    """The documents of one screening in a store, in path order, each with its report as JSON
+    data (schema 1)."""
+    return _screening(store_path, settings)[1]
+
+
+def summarise(store_path: str, settings: Settings | None = None) -> CorpusSummary:
+    """The corpus view of a store (of one settings key: the given one, else the only one)."""
+    key, documents = _screening(store_path, settings)
     status: dict[str, int] = {}
     flags: dict[str, int] = {}
     flagged_documents: dict[str, int] = {}
@@ -256,4 +269,5 @@ def _harmonised(claim: dict):
     return harmonise(claim["test"], statistic, df)
 
 
-__all__ = ["CorpusSummary", "Screening", "check_to_json", "screen", "summarise"]
+__all__ = ["CorpusSummary", "Screening", "StoredDocument", "check_to_json", "screen",
+           "stored_documents", "summarise"]
