@@ -105,6 +105,10 @@ def build_parser() -> tuple[argparse.ArgumentParser, dict[str, argparse.Argument
                             "(a row per result), SARIF 2.1.0 or a self-contained HTML page "
                             "(default: text)")
     _output_option(check)
+    check.add_argument("--annotate", metavar="FOLDER", default=None,
+                       help="also write a copy of every PDF with flags into FOLDER, each "
+                            "flagged result highlighted with its messages "
+                            "(NAME.scrutiny.pdf); FOLDER may not lie in an input folder")
     check.add_argument("--fail-on", choices=[s.label for s in Severity] + ["never"],
                        default="error",
                        help="exit with 1 when a flag of this severity or higher is raised "
@@ -199,7 +203,8 @@ def exit_code(run: Run, fail_on: str) -> int:
     return EXIT_FLAGS if flagged else EXIT_OK
 
 
-def _refuse_output_among_inputs(output: str, inputs: Sequence[str]) -> None:
+def _refuse_output_among_inputs(output: str, inputs: Sequence[str],
+                                option: str = "--output") -> None:
     """A report must never overwrite a manuscript, nor land where the next run would read it."""
     target = os.path.realpath(output)
     for given in inputs:
@@ -207,12 +212,49 @@ def _refuse_output_among_inputs(output: str, inputs: Sequence[str]) -> None:
             continue
         source = os.path.realpath(given)
         if target == source:
-            raise UsageError(f"--output {output} is one of the inputs; choose another file")
+            raise UsageError(f"{option} {output} is one of the inputs; choose another")
         if os.path.isdir(source) and os.path.commonpath([source, target]) == source:
-            raise UsageError(f"--output {output} lies in the input folder {given}; a later run "
-                             f"would read the report as a manuscript")
-    if os.path.isdir(target):
+            raise UsageError(f"{option} {output} lies in the input folder {given}; a later run "
+                             f"would read what scrutiny writes there as a manuscript")
+    if option == "--output" and os.path.isdir(target):
         raise UsageError(f"--output {output} is a folder; give a file name")
+    if option == "--annotate" and os.path.exists(target) and not os.path.isdir(target):
+        raise UsageError(f"--annotate {output} is a file; give a folder")
+
+
+def _annotate(run: Run, folder: str, settings: Settings, stderr: TextIO) -> bool:
+    """Annotated copies of the flagged PDFs; False when one could not be written."""
+    from .ingest.guard import run_guarded
+    from .report.annotate import annotate_pdf, annotated_name
+
+    flagged = [document for document in run.documents
+               if document.format == "pdf" and any(result.flags for result in document.claims)]
+    if not flagged:
+        return True
+    try:
+        os.makedirs(folder, exist_ok=True)
+    except OSError as exc:
+        raise UsageError(f"--annotate {folder}: cannot be created ({exc.strerror})") from None
+    written_ok = True
+    used: set[str] = set()
+    for document in flagged:
+        name = annotated_name(document.path)
+        stem, count = name[:-len(".scrutiny.pdf")], 2
+        while name in used:  # two inputs of the same name from different folders
+            name, count = f"{stem}-{count}.scrutiny.pdf", count + 1
+        used.add(name)
+        target = os.path.join(folder, name)
+        try:
+            highlighted = run_guarded(document.path,
+                                      lambda: annotate_pdf(document, target),
+                                      settings.time_limit, settings.memory_limit_mb * 2**20)
+        except ScrutinyError as exc:
+            stderr.write(f"scrutiny: {exc}\n")
+            written_ok = False
+            continue
+        stderr.write(f"scrutiny: {target}: {highlighted} flagged result"
+                     f"{'s' if highlighted != 1 else ''} highlighted\n")
+    return written_ok
 
 
 def _deliver(text: str, output: str | None, stdout: TextIO) -> None:
@@ -294,6 +336,8 @@ def main(argv: Sequence[str] | None = None, stdout: TextIO | None = None,
         if args.output is not None:
             _refuse_output_among_inputs(args.output, [*args.paths, *(
                 [args.store] if args.command == "screen" else [])])
+        if getattr(args, "annotate", None) is not None:
+            _refuse_output_among_inputs(args.annotate, args.paths, "--annotate")
         if args.command == "screen":
             return _screen(args, settings, stdout, stderr)
         run = check_paths(args.paths, settings=settings)
@@ -307,6 +351,8 @@ def main(argv: Sequence[str] | None = None, stdout: TextIO | None = None,
             buffer = io.StringIO()
             render(run, args.format, buffer, width=120)
             _deliver(buffer.getvalue(), args.output, stdout)
+        if args.annotate is not None and not _annotate(run, args.annotate, settings, stderr):
+            return EXIT_USAGE
         return exit_code(run, args.fail_on)
     except ScrutinyError as exc:  # bad usage, an unusable store: one line, exit 2
         stderr.write(f"scrutiny: error: {exc}\n")

@@ -1,0 +1,143 @@
+"""Annotated copies of PDF manuscripts: every flagged result highlighted where it is printed,
+with the flags' messages in the highlight's note, for a reviewer to page through in any PDF
+viewer.
+
+The copy is a new file; the manuscript itself is only read. The highlights are placed from the
+character boxes the PDF reader found for each result (`Location.boxes`, in points from the top
+left of the page as displayed) mapped back into the page's own coordinates: through its crop
+box and its rotation. A note on the first page gives the summary of the document and the
+caution that a flag is a prompt to look, not proof of error or misconduct.
+"""
+
+from __future__ import annotations
+
+import os
+import tempfile
+from pathlib import Path
+
+from .. import __version__
+from ..errors import InputError
+from ..model import Box, DocumentResult, Severity
+from . import CAUTION
+
+#: the document-information key that marks a copy as written by scrutiny (and so replaceable)
+MARKER = "/ScrutinyAnnotated"
+#: highlight colours by the worst severity of the result's flags
+_COLOURS = {Severity.ERROR: "ff8a80", Severity.WARNING: "ffe58f", Severity.NOTE: "9fd5ff"}
+
+
+class AnnotationError(InputError):
+    """The annotated copy of one manuscript cannot be written (the others still are)."""
+
+
+def annotated_name(path: str) -> str:
+    """`paper.pdf` -> `paper.scrutiny.pdf`."""
+    return f"{Path(path).stem}.scrutiny.pdf"
+
+
+def page_rectangle(box: Box, crop: tuple[float, float, float, float],
+                   rotation: int) -> tuple[float, float, float, float]:
+    """A box in points from the top left of the displayed page, as (x0, y0, x1, y1) in the
+    page's user space (origin bottom left, before the page's /Rotate): the inverse of how the
+    PDF reader measured it."""
+    left, bottom, right, top = crop
+    corners = [(box.x0, box.top), (box.x1, box.bottom)]
+    if rotation == 90:
+        points = [(left + y, bottom + x) for x, y in corners]
+    elif rotation == 180:
+        points = [(right - x, bottom + y) for x, y in corners]
+    elif rotation == 270:
+        points = [(right - y, top - x) for x, y in corners]
+    else:
+        points = [(left + x, top - y) for x, y in corners]
+    xs, ys = [p[0] for p in points], [p[1] for p in points]
+    return min(xs), min(ys), max(xs), max(ys)
+
+
+def _is_ours(path: str) -> bool:
+    from pypdf import PdfReader
+
+    try:
+        metadata = PdfReader(path).metadata or {}
+    except Exception:  # unreadable: certainly not a copy we wrote
+        return False
+    return MARKER in metadata
+
+
+def annotate_pdf(document: DocumentResult, target: str) -> int:
+    """Write an annotated copy of the PDF `document.path` to `target`; the number of flagged
+    results highlighted. The target is replaced only if scrutiny wrote it, and only once the
+    copy is complete."""
+    from pypdf import PdfReader, PdfWriter
+    from pypdf.annotations import Highlight, Text
+    from pypdf.generic import ArrayObject, FloatObject, NameObject, TextStringObject
+
+    if os.path.exists(target) and not _is_ours(target):
+        raise AnnotationError(target, "exists and was not written by scrutiny; move it or "
+                                      "choose another folder")
+    try:
+        writer = PdfWriter(clone_from=PdfReader(document.path))
+    except Exception as exc:
+        raise AnnotationError(document.path, f"cannot be copied ({type(exc).__name__}: "
+                                             f"{exc})") from None
+
+    def note(annotation, contents: str, subject: str) -> None:
+        annotation[NameObject("/T")] = TextStringObject("scrutiny")
+        annotation[NameObject("/Subj")] = TextStringObject(subject)
+        annotation[NameObject("/Contents")] = TextStringObject(contents)
+
+    highlighted = 0
+    for result in document.claims:
+        if not result.flags or not result.claim.location.boxes:
+            continue
+        worst = max(flag.severity for flag in result.flags)
+        messages = "\n\n".join(f"{flag.check} ({flag.severity.label}): {flag.message}"
+                               for flag in result.flags)
+        subject = ", ".join(flag.check for flag in result.flags)
+        for index, box in enumerate(result.claim.location.boxes):
+            if not 1 <= box.page <= len(writer.pages):
+                continue
+            page = writer.pages[box.page - 1]
+            crop = page.cropbox
+            x0, y0, x1, y1 = page_rectangle(
+                box, (min(crop.left, crop.right), min(crop.bottom, crop.top),
+                      max(crop.left, crop.right), max(crop.bottom, crop.top)),
+                page.rotation % 360)
+            # quadrilateral corners in the order viewers expect: top left, top right,
+            # bottom left, bottom right
+            quad = ArrayObject(FloatObject(round(v, 2)) for v in (x0, y1, x1, y1, x0, y0, x1, y0))
+            highlight = Highlight(rect=(x0, y0, x1, y1), quad_points=quad,
+                                  highlight_color=_COLOURS[worst], printing=True)
+            note(highlight, f"{result.id}: {messages}" if index == 0
+                 else f"{result.id} (continued): {subject}", subject)
+            writer.add_annotation(page_number=box.page - 1, annotation=highlight)
+        highlighted += 1
+
+    if writer.pages:
+        first = writer.pages[0]
+        crop = first.cropbox
+        corner = page_rectangle(Box(1, 8, 8, 26, 26),
+                                (min(crop.left, crop.right), min(crop.bottom, crop.top),
+                                 max(crop.left, crop.right), max(crop.bottom, crop.top)),
+                                first.rotation % 360)
+        flags = sum(len(result.flags) for result in document.claims)
+        summary = (f"scrutiny {__version__}: {len(document.claims)} results found, "
+                   f"{flags} flag{'s' if flags != 1 else ''} on {highlighted} of them "
+                   f"(highlighted; open a highlight for its messages).\n\n{CAUTION}")
+        sticky = Text(rect=corner, text=summary, open=False)
+        note(sticky, summary, "scrutiny summary")
+        writer.add_annotation(page_number=0, annotation=sticky)
+    writer.add_metadata({MARKER: __version__})
+
+    folder = os.path.dirname(os.path.abspath(target))
+    handle, temporary = tempfile.mkstemp(prefix=".scrutiny-", suffix=".pdf", dir=folder)
+    try:
+        with os.fdopen(handle, "wb") as stream:
+            writer.write(stream)
+        os.replace(temporary, target)
+    except Exception as exc:
+        if os.path.exists(temporary):
+            os.unlink(temporary)
+        raise AnnotationError(target, f"cannot be written ({type(exc).__name__}: "
+                                      f"{exc})") from None
+    return highlighted
