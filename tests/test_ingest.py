@@ -102,6 +102,11 @@ def test_reading_never_changes_the_file(tmp_path):
     ("signifi-\ncant", "significant"),              # end-of-line hyphenation
     ("e\ufb03cient", "efficient"),                  # ligature ffi
     ("2.8 \u00d7 10\u207b\u2074", "2.8 \u00d7 10-4"),  # superscript exponent
+    ("p = .021\u00b3 and", "p = .021  and"),       # a footnote marker after a number
+    ("t(28) = 2.45\u00b9\u00b2, p", "t(28) = 2.45  , p"),  # a two-digit marker
+    ("p = .010\u00b3", "p = .010 "),               # "10" after a decimal point: a marker
+    ("2.8 \u00d7 10\u2074", "2.8 \u00d7 104"),      # a positive power of ten keeps its exponent
+    ("r\u00b2 = .04, R\u00b2", "r2 = .04, R2"),      # a square after a letter
 ])
 def test_normalisation(printed, normalised):
     assert normalise(printed)[0] == normalised

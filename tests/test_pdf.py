@@ -544,6 +544,20 @@ def test_boxes_on_a_page_shown_turned():
 
 
 @needs_fonts
+def test_a_footnote_marker_after_a_number_is_not_a_digit_of_it():
+    # "p = .021" with a footnote marker 3 set smaller and raised must not read as p = .0213;
+    # a squared statistic and a marker after a statistic are read as printed
+    paragraphs = [PROSE, "Voles dug deeper, t(28) = 2.45, p = .021^{3} and left earlier, "
+                  "t(40) = 2.10^{12}, p = .04. The model fitted, r^{2} = .31, "
+                  "χ^{2}(1, N = 80) = 4.62, p = .032."]
+    document, claims = read(manuscript_pdf(paragraphs, Layout(columns=2)))
+    assert [(claim.test, claim.statistic, claim.p.reported) for claim in claims] == [
+        ("t", "2.45", ".021"), ("t", "2.10", ".04"), ("chi2", "4.62", ".032")]
+    found = scrutiny.check_document(document)
+    assert [claim.status.value for claim in found.claims] == ["consistent"] * 3
+
+
+@needs_fonts
 def test_a_greek_letter_and_its_square_both_in_the_symbol_font():
     paragraphs = [PROSE, "Waders chose roosts by tide, {greek:χ2}(1, N = 96) = 5.10, p = .024, "
                   "and by wind, {greek:χ2}(2, N = 96) = 7.40, p = .025."]

@@ -12,6 +12,8 @@ against one plain form, so this module maps every variant to it:
 * soft hyphens and zero-width characters removed;
 * a middle dot between digits (a decimal point in some journals' house style) to ".", except
   before a power of ten, where it is a times sign ("2.8·10⁻⁴", "3·10^-6");
+* superscript digits right after a number, a footnote marker ("p = .021³"), to spaces, so
+  that they are not read as digits of the number; a power of ten ("10⁴") keeps its exponent;
 * end-of-line hyphenation of lower-case words joined ("signifi-\\ncant").
 
 The normalised text keeps the line breaks of the original. Because a few replacements change
@@ -40,6 +42,7 @@ _CHARACTER_MAP = {
 }
 
 _MIDDLE_DOTS = "\u00b7\u2219"
+_SUPERSCRIPT_DIGITS = "\u2070\u00b9\u00b2\u00b3\u2074\u2075\u2076\u2077\u2078\u2079"
 # A middle dot between digits is a decimal point ("0·03"), except before a power of ten, where
 # it multiplies ("3·10⁻⁶").
 _POWER_OF_TEN = regex.compile(
@@ -71,6 +74,9 @@ def _normalise_run(text: str, start: int, run: str) -> str:
         return run
     out = []
     for offset, ch in enumerate(run):
+        if ch in _SUPERSCRIPT_DIGITS and _is_footnote_marker(text, start + offset):
+            out.append(" ")
+            continue
         if ch in _MIDDLE_DOTS:
             position = start + offset
             if (position > 0 and text[position - 1].isdigit()
@@ -83,6 +89,22 @@ def _normalise_run(text: str, start: int, run: str) -> str:
             mapped = _character_cache[ch] = _map_character(ch)
         out.append(mapped)
     return "".join(out)
+
+
+def _is_footnote_marker(text: str, position: int) -> bool:
+    """Is the superscript digit at `position` part of a footnote marker after a number
+    ("p = .021³", "t(28) = 2.45¹²") rather than an exponent ("10⁴", "× 10³") or a square
+    after a letter ("χ²", "r²")?"""
+    first = position
+    while first > 0 and text[first - 1] in _SUPERSCRIPT_DIGITS:
+        first -= 1
+    if first == 0 or not "0" <= text[first - 1] <= "9":
+        return False
+    # a power of ten: "10" not preceded by another digit or a decimal point
+    if text[max(0, first - 2):first] == "10" and (
+            first < 3 or not (text[first - 3].isdigit() or text[first - 3] in ".,")):
+        return False
+    return True
 
 
 def _is_hyphenation(text: str, start: int, end: int) -> bool:

@@ -19,7 +19,9 @@ which a few page-level repairs are made:
 * margin line numbers, which pdfium puts at the start or end of the line they stand beside,
   are cut out;
 * two columns written line by line across the page (which pdfium merges into lines that run
-  across the gutter) are split at the gutter and read column by column.
+  across the gutter) are split at the gutter and read column by column;
+* digits printed smaller and raised right after the number of a result ("p = .021³", a
+  footnote marker) become superscript digits, which normalisation keeps apart from the number.
 
 All boxes here are in PDF user space (points, origin at the bottom left of the media box).
 """
@@ -359,6 +361,7 @@ def read_page(raw_page, raw_textpage, context: Context | None = None) -> PageLay
     lines = _split_interleaved_columns(page, lines, layout)
     _cut_line_numbers(page, lines, layout, context.line_number_anchors)
     layout.lines = _join_printed_lines(page, lines)
+    _mark_raised_digits(page, layout.lines)
     return layout
 
 
@@ -371,6 +374,47 @@ _CLAIM_START = re.compile(r"(?<![^\W_])[tFrzZXxχΧ𝑡𝐹𝑟𝑧𝜒Δ∆*_](
 #: a sign (or a glyph that may stand for one) and the number after it (scanned once a page)
 SIGN_NUMBER = re.compile(r"(?P<sign>[=<>\u2264\u2265,\u00bc\u2afd\u2b0d\x00-\x08])\s?-?[ ]?"
                          r"(?P<number>[\d.,]*(\d))(?:[ ]?[×x*·][ ]?10[ ]?\^?-?[ ]?\d*(\d))?")
+
+
+_SUPERSCRIPT_DIGITS = str.maketrans("0123456789", "\u2070\u00b9\u00b2\u00b3\u2074\u2075\u2076"
+                                                 "\u2077\u2078\u2079")
+
+
+def _mark_raised_digits(page: TextPage, lines: list[Line]) -> None:
+    """Digits printed smaller and raised right after the number of a result ("p = .021" with a
+    footnote marker 3 set as a superscript) become superscript digits, so that ".0213" is not
+    read as the p-value. Only numbers after a sign are examined; a digit counts as raised when
+    its font box is under 85% of the height of the number's first digit and starts at least
+    15% of that height higher."""
+    for line in lines:
+        text = line.text
+        if "=" not in text and "<" not in text and ">" not in text:
+            continue
+        for found in SIGN_NUMBER.finditer(text):
+            start, end = found.span("number")
+            first = next((i for i in range(start, end) if text[i].isdigit()), None)
+            base = line.char_at(first) if first is not None else None
+            if base is None:
+                continue
+            _, base_bottom, _, base_top = page.box(base)
+            base_height = base_top - base_bottom
+            if base_height <= 0:
+                continue
+            for offset in range(first + 1, end):
+                if not (text[offset].isdigit() and text[offset - 1].isdigit()):
+                    continue
+                char = line.char_at(offset)
+                if char is None:
+                    continue
+                _, bottom, _, top = page.box(char)
+                if top - bottom < 0.85 * base_height and bottom - base_bottom > 0.15 * base_height:
+                    stop = offset
+                    while stop < len(text) and text[stop].isdigit():
+                        stop += 1
+                    text = text[:offset] + text[offset:stop].translate(_SUPERSCRIPT_DIGITS) \
+                        + text[stop:]
+                    break
+        line.text = text
 
 
 def page_text(lines: list[Line]) -> tuple[str, list[int]]:
