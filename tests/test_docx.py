@@ -155,6 +155,19 @@ def test_a_result_split_across_italic_runs_reads_as_one():
     assert claim.location.paragraph == 1
 
 
+def test_superscript_runs_a_square_an_exponent_and_a_note_marker():
+    # python-docx writes w:vertAlign="superscript" for font.superscript (Word's own markup)
+    document = docx.Document()
+    paragraph = document.add_paragraph("Nest sites differed, ")
+    for text, raised in (("χ", False), ("2", True), ("(1, N = 80) = 4.62, p = .032", False),
+                         ("3", True), (", and burrows too, t(28) = 2.45", False), ("12", True),
+                         (", p = 2.1 × 10", False), ("-2", True), (".", False)):
+        paragraph.add_run(text).font.superscript = raised
+    claims = claims_of(saved(document))
+    assert [summary(claim) for claim in claims] == [
+        ("chi2", ("1",), "4.62", "=", ".032"), ("t", ("28",), "2.45", "=", "2.1 × 10-2")]
+
+
 def test_endnotes_are_read_after_footnotes():
     document = docx.Document()
     document.add_paragraph("Body text without results.")

@@ -504,3 +504,14 @@ def test_bad_markup_files_do_not_stop_the_others(tmp_path, listener):
     assert "no text" in by_name["f-empty.html"].errors[0]
     assert len(by_name["g-plain.txt"].claims) == 1
     assert connections(listener) == 0
+
+
+@pytest.mark.parametrize("wrap, name", [(html_page, "page.html"), (jats, "article.xml")])
+def test_superscript_digits_a_square_and_a_note_marker(wrap, name):
+    # a <sup> of digits after χ is its square; after the number of a result, a note marker
+    # that must not be read as a digit of it (p = .032 with note 3 is not p = .0323)
+    body = ("<p>Nest sites differed, χ<sup>2</sup>(1, N = 80) = 4.62, p = .032<sup>3</sup>, "
+            "and burrows too, t(28) = 2.45<sup>12</sup>, p = .021.</p>")
+    claims = claims_of(wrap(body), name)
+    assert [summary(claim) for claim in claims] == [
+        ("chi2", ("1",), "4.62", "=", ".032"), ("t", ("28",), "2.45", "=", ".021")]

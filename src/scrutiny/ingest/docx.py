@@ -290,13 +290,17 @@ def _paragraph_text(paragraph, text_boxes: list) -> str:
     """The text of one paragraph as Word shows it; text boxes inside it go to `text_boxes`."""
     pieces: list[str] = []
 
-    def walk(element, symbol_font: bool) -> None:
+    def walk(element, symbol_font: bool, superscript: bool = False) -> None:
         for child in element:
             tag = child.tag
             if not isinstance(tag, str) or tag in _SKIPPED:
                 continue
             if tag == _T or tag == _MATH_T:
                 text = child.text or ""
+                if superscript and text.isdigit() and pieces and "0" <= pieces[-1][-1:] <= "9":
+                    # digits raised right after a number: an exponent or a note marker, which
+                    # normalisation tells apart; kept apart from the number
+                    text = text.translate(_SUPERSCRIPT_DIGITS)
                 pieces.append(_in_symbol_font_text(text) if symbol_font else text)
             elif tag in _SINGLE_CHARACTERS:
                 pieces.append(_SINGLE_CHARACTERS[tag])
@@ -305,9 +309,9 @@ def _paragraph_text(paragraph, text_boxes: list) -> str:
             elif tag == _TXBX_CONTENT:
                 text_boxes.append(child)
             elif tag == _R:
-                walk(child, _in_symbol_font(child))
+                walk(child, _in_symbol_font(child), _is_superscript(child))
             else:
-                walk(child, symbol_font)
+                walk(child, symbol_font, superscript)
 
     walk(paragraph, False)
     return "".join(pieces)
@@ -322,6 +326,15 @@ def _in_symbol_font_text(text: str) -> str:
             character = chr(ord(character) - 0xF000)
         characters.append(_SYMBOL_FONT.get(character, character))
     return "".join(characters)
+
+
+_SUPERSCRIPT_DIGITS = str.maketrans("0123456789", "\u2070\u00b9\u00b2\u00b3\u2074\u2075\u2076"
+                                                 "\u2077\u2078\u2079")
+
+
+def _is_superscript(run) -> bool:
+    alignment = run.find(f"{_W}rPr/{_W}vertAlign")
+    return alignment is not None and alignment.get(_W + "val") == "superscript"
 
 
 def _in_symbol_font(run) -> bool:

@@ -14,7 +14,9 @@ Inline markup is read as the text it renders: `χ<sup>2</sup>(1, N = 80)` reads
 `χ2(1, N = 80)`, `<italic>p</italic> &lt; .001` reads `p < .001`, `t<sub>18</sub>` reads
 `t18`. Superscript note and citation markers (a superscript that holds a link or a
 cross-reference, and JATS cross-references to footnotes) are left out, so that
-`p = .04<sup><a href="#n3">3</a></sup>` does not read `p = .043`. MathML reads as its
+`p = .04<sup><a href="#n3">3</a></sup>` does not read `p = .043`; a plain superscript of
+digits right after a number reads as superscript digits (`p = .04<sup>3</sup>` is `p = .04³`,
+which normalisation does not read as `.043`). MathML reads as its
 characters (`<msup><mi>χ</mi><mn>2</mn></msup>` is `χ2`); JATS `<alternatives>` are read once
 (a table or MathML before TeX, TeX before a picture); TeX math is reduced to plain text.
 
@@ -577,6 +579,14 @@ class _Walker:
     def in_cell(self) -> bool:
         return self.owner is not None and self.owner.kind == "cell"
 
+    def on_superscript(self, element, name: str) -> None:
+        # digits raised right after a number: an exponent ("10<sup>4</sup>") or a note marker
+        # ("p = .021<sup>3</sup>"), which normalisation tells apart; kept as superscript
+        # digits so that they do not join the number. Elsewhere ("χ<sup>2</sup>") as printed.
+        text = element.text or ""
+        before = self.buffer[-1][-1:] if self.buffer else ""
+        self.text(text.translate(_SUPERSCRIPT_DIGITS) if "0" <= before <= "9" else text)
+
     def on_break(self, element, name: str) -> None:
         self.text("\n")
         self.marks.append((self.buffer_length, None))  # a break, not a line of the source
@@ -706,6 +716,15 @@ def _line_at(marks: list[tuple[int, int]], text: str, offset: int) -> int | None
 _LINK_NAMES = frozenset({"a", "xref"})
 
 
+_SUPERSCRIPT_DIGITS = str.maketrans("0123456789", "\u2070\u00b9\u00b2\u00b3\u2074\u2075\u2076"
+                                                 "\u2077\u2078\u2079")
+
+
+def _holds_only_digits(element) -> bool:
+    """A superscript of digits only, nothing nested (`<sup>3</sup>`)."""
+    return len(element) == 0 and (element.text or "").isdigit()
+
+
 def _is_superscript_marker(element, name_of) -> bool:
     """A superscript that holds a link (`<sup><a href="#n3">3</a></sup>`), or a link that holds
     a superscript: a note or citation marker, not part of a number."""
@@ -735,6 +754,8 @@ class _HtmlWalker(_Walker):
             return "skip"
         if name in ("sup", "a") and _is_superscript_marker(element, self.name):
             return "marker"
+        if name == "sup" and _holds_only_digits(element):
+            return "superscript"
         if name == "br":
             return "break"
         if name in ("td", "th"):
@@ -812,6 +833,8 @@ class _JatsWalker(_Walker):
             return "marker"
         if name in ("sup", "xref") and _is_superscript_marker(element, self.name):
             return "marker"
+        if name == "sup" and _holds_only_digits(element):
+            return "superscript"
         if name == "break":
             return "break"
         if name in ("td", "th"):
