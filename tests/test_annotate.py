@@ -228,3 +228,115 @@ def test_without_flagged_pdfs_nothing_is_written(tmp_path):
     out = tmp_path / "annotated"
     assert run("check", str(path), "--annotate", str(out))[0] == 1
     assert not out.exists()
+
+
+# -- Word ------------------------------------------------------------------------------------
+
+W = "{http://schemas.openxmlformats.org/wordprocessingml/2006/main}"
+
+
+def _commented_text(path) -> dict[str, str]:
+    """The text each comment range of a Word file covers, read from its XML with lxml."""
+    import zipfile
+
+    from lxml import etree
+
+    body = etree.fromstring(zipfile.ZipFile(path).read("word/document.xml"))
+    open_ranges: dict[str, list[str]] = {}
+    covered: dict[str, str] = {}
+    for element in body.iter():
+        if element.tag == W + "commentRangeStart":
+            open_ranges[element.get(W + "id")] = []
+        elif element.tag == W + "commentRangeEnd":
+            key = element.get(W + "id")
+            covered[key] = "".join(open_ranges.pop(key))
+        elif element.tag == W + "t":
+            for pieces in open_ranges.values():
+                pieces.append(element.text or "")
+    return covered
+
+
+def _word_manuscript(path) -> None:
+    import docx
+
+    document = docx.Document()
+    document.add_paragraph("Voles from the warm enclosures dug deeper, t(28) = 2.20, p = .01, "
+                           "and the treated voles left earlier, t(40) = 1.80, p = .04.")
+    paragraph = document.add_paragraph("The logger agreed, t(28) = 2.45, p = .021, and the "
+                                       "season mattered, ")
+    for text, italic in (("z", True), (" = 2.", False), ("81, n", False), ("s", False),
+                         (", as in earlier years.", False)):
+        paragraph.add_run(text).italic = italic
+    table = document.add_table(rows=1, cols=2)
+    table.cell(0, 0).text = "Sites"
+    table.cell(0, 1).text = "F(2, 87) = 4.12, p = .01"
+    document.save(str(path))
+
+
+def test_word_copy_comments_exactly_the_flagged_results(tmp_path):
+    import docx
+
+    source = tmp_path / "manuscripts" / "paper.docx"
+    source.parent.mkdir()
+    _word_manuscript(source)
+    before = source.read_bytes()
+    out = tmp_path / "annotated"
+    code, _, err = run("check", str(source), "--annotate", str(out))
+    assert code == 1
+    copy = out / "paper.scrutiny.docx"
+    assert err.strip().endswith(f"{copy}: 4 flagged results commented")
+    assert source.read_bytes() == before
+
+    result = scrutiny.check_file(str(source))
+    flagged = [claim for claim in result.claims if claim.flags]
+    comments = list(docx.Document(str(copy)).comments)
+    assert all(comment.author == "scrutiny" for comment in comments)
+    covered = _commented_text(copy)
+    by_id = {str(comment.comment_id): comment for comment in comments}
+    texts = sorted(covered[key] for key in covered if "results found" not in by_id[key].text)
+    assert texts == sorted(claim.claim.text for claim in flagged)
+    for claim in flagged:
+        [key] = [key for key, text in covered.items() if text == claim.claim.text]
+        for flag in claim.flags:
+            assert flag.message in by_id[key].text
+    [summary] = [c for c in comments if "results found" in c.text]
+    assert scrutiny.CAUTION in summary.text
+    # the runs cut to anchor the comment keep their formatting: "z" stays italic
+    copied = docx.Document(str(copy))
+    italic = [run.text for paragraph in copied.paragraphs for run in paragraph.runs if run.italic]
+    assert italic == ["z"]
+    # and the copy reads as the manuscript does
+    assert [c.claim.text for c in scrutiny.check_file(str(copy)).claims] == [
+        c.claim.text for c in result.claims]
+
+
+def test_word_results_outside_the_body_text_are_counted_not_lost(tmp_path):
+    import docx
+
+    source = tmp_path / "manuscripts" / "paper.docx"
+    source.parent.mkdir()
+    document = docx.Document()
+    paragraph = document.add_paragraph("Burrows differed, ")
+    # a result inside a hyperlink: its runs are not the paragraph's own
+    from docx.oxml import parse_xml
+    paragraph._p.append(parse_xml(
+        '<w:hyperlink xmlns:w="http://schemas.openxmlformats.org/wordprocessingml/2006/main">'
+        '<w:r><w:t xml:space="preserve">t(28) = 2.20, p = .01</w:t></w:r></w:hyperlink>'))
+    document.save(str(source))
+    out = tmp_path / "annotated"
+    code, _, err = run("check", str(source), "--annotate", str(out))
+    assert code == 1 and "0 flagged results commented, 1 not found in the body text" in err
+    [summary] = list(docx.Document(str(out / "paper.scrutiny.docx")).comments)
+    assert "1 flagged result could not be marked in the text" in summary.text
+
+
+def test_a_foreign_word_file_is_never_replaced(tmp_path):
+    source = tmp_path / "manuscripts" / "paper.docx"
+    source.parent.mkdir()
+    _word_manuscript(source)
+    out = tmp_path / "annotated"
+    out.mkdir()
+    (out / "paper.scrutiny.docx").write_bytes(b"the user's own file")
+    code, _, err = run("check", str(source), "--annotate", str(out))
+    assert code == 2 and "exists and was not written by scrutiny" in err
+    assert (out / "paper.scrutiny.docx").read_bytes() == b"the user's own file"

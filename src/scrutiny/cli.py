@@ -106,9 +106,10 @@ def build_parser() -> tuple[argparse.ArgumentParser, dict[str, argparse.Argument
                             "(default: text)")
     _output_option(check)
     check.add_argument("--annotate", metavar="FOLDER", default=None,
-                       help="also write a copy of every PDF with flags into FOLDER, each "
-                            "flagged result highlighted with its messages "
-                            "(NAME.scrutiny.pdf); FOLDER may not lie in an input folder")
+                       help="also write a copy of every PDF and Word document with flags "
+                            "into FOLDER, each flagged result highlighted (PDF) or commented "
+                            "(Word) with its messages (NAME.scrutiny.pdf, NAME.scrutiny.docx); "
+                            "FOLDER may not lie in an input folder")
     check.add_argument("--fail-on", choices=[s.label for s in Severity] + ["never"],
                        default="error",
                        help="exit with 1 when a flag of this severity or higher is raised "
@@ -223,12 +224,14 @@ def _refuse_output_among_inputs(output: str, inputs: Sequence[str],
 
 
 def _annotate(run: Run, folder: str, settings: Settings, stderr: TextIO) -> bool:
-    """Annotated copies of the flagged PDFs; False when one could not be written."""
+    """Annotated copies of the flagged PDF and Word documents; False when one could not be
+    written."""
     from .ingest.guard import run_guarded
-    from .report.annotate import annotate_pdf, annotated_name
+    from .report.annotate import annotate_docx, annotate_pdf
 
     flagged = [document for document in run.documents
-               if document.format == "pdf" and any(result.flags for result in document.claims)]
+               if document.format in ("pdf", "docx")
+               and any(result.flags for result in document.claims)]
     if not flagged:
         return True
     try:
@@ -238,43 +241,31 @@ def _annotate(run: Run, folder: str, settings: Settings, stderr: TextIO) -> bool
     written_ok = True
     used: set[str] = set()
     for document in flagged:
-        name = annotated_name(document.path)
-        stem, count = name[:-len(".scrutiny.pdf")], 2
+        suffix = ".scrutiny.pdf" if document.format == "pdf" else ".scrutiny.docx"
+        stem = os.path.splitext(os.path.basename(document.path))[0]
+        name, count = stem + suffix, 2
         while name in used:  # two inputs of the same name from different folders
-            name, count = f"{stem}-{count}.scrutiny.pdf", count + 1
+            name, count = f"{stem}-{count}{suffix}", count + 1
         used.add(name)
         target = os.path.join(folder, name)
+        work = (lambda: annotate_pdf(document, target)) if document.format == "pdf" else (
+            lambda: annotate_docx(document, target))
         try:
-            highlighted = run_guarded(document.path,
-                                      lambda: annotate_pdf(document, target),
-                                      settings.time_limit, settings.memory_limit_mb * 2**20)
+            done = run_guarded(document.path, work, settings.time_limit,
+                               settings.memory_limit_mb * 2**20)
         except ScrutinyError as exc:
             stderr.write(f"scrutiny: {exc}\n")
             written_ok = False
             continue
-        stderr.write(f"scrutiny: {target}: {highlighted} flagged result"
-                     f"{'s' if highlighted != 1 else ''} highlighted\n")
+        if document.format == "pdf":
+            stderr.write(f"scrutiny: {target}: {done} flagged result"
+                         f"{'s' if done != 1 else ''} highlighted\n")
+        else:
+            commented, missed = done
+            stderr.write(f"scrutiny: {target}: {commented} flagged result"
+                         f"{'s' if commented != 1 else ''} commented"
+                         + (f", {missed} not found in the body text" if missed else "") + "\n")
     return written_ok
-
-
-def _deliver(text: str, output: str | None, stdout: TextIO) -> None:
-    """Write a finished report to `output` (atomically, UTF-8) or to standard output."""
-    if output is None:
-        stdout.write(text)
-        stdout.flush()
-        return
-    folder = os.path.dirname(os.path.abspath(output))
-    try:
-        handle, temporary = tempfile.mkstemp(prefix=".scrutiny-", dir=folder)
-    except OSError as exc:
-        raise UsageError(f"--output {output}: cannot write there ({exc.strerror})") from None
-    try:
-        with os.fdopen(handle, "w", encoding="utf-8", newline="") as stream:
-            stream.write(text)
-        os.replace(temporary, output)
-    except OSError as exc:
-        os.unlink(temporary)
-        raise UsageError(f"--output {output}: cannot be written ({exc.strerror})") from None
 
 
 def _render_summary(args: argparse.Namespace, store: str, settings: Settings | None,

@@ -1,12 +1,17 @@
-"""Annotated copies of PDF manuscripts: every flagged result highlighted where it is printed,
-with the flags' messages in the highlight's note, for a reviewer to page through in any PDF
-viewer.
+"""Annotated copies of PDF and Word manuscripts: every flagged result highlighted (PDF) or
+commented (Word) where it is printed, with the flags' messages, for a reviewer or an author to
+page through in any PDF viewer or word processor.
 
 The copy is a new file; the manuscript itself is only read. The highlights are placed from the
 character boxes the PDF reader found for each result (`Location.boxes`, in points from the top
 left of the page as displayed) mapped back into the page's own coordinates: through its crop
 box and its rotation. A note on the first page gives the summary of the document and the
 caution that a flag is a prompt to look, not proof of error or misconduct.
+
+In a Word copy each flagged result gets a comment by "scrutiny" anchored to exactly its text
+(a run is split where the result starts or ends inside it). Results in notes, text boxes or
+fields, to which such a comment cannot be anchored, are counted in the summary comment on the
+first paragraph, which also carries the caution.
 """
 
 from __future__ import annotations
@@ -14,6 +19,7 @@ from __future__ import annotations
 import os
 import tempfile
 from pathlib import Path
+from typing import Iterator
 
 from .. import __version__
 from ..errors import InputError
@@ -141,3 +147,152 @@ def annotate_pdf(document: DocumentResult, target: str) -> int:
         raise AnnotationError(target, f"cannot be written ({type(exc).__name__}: "
                                       f"{exc})") from None
     return highlighted
+
+
+# -- Word ------------------------------------------------------------------------------------
+
+#: the author of the comments scrutiny adds to a Word copy (and how a copy is recognised)
+COMMENT_AUTHOR = "scrutiny"
+
+
+def annotated_docx_name(path: str) -> str:
+    """`paper.docx` -> `paper.scrutiny.docx`."""
+    return f"{Path(path).stem}.scrutiny.docx"
+
+
+def _paragraphs(container) -> Iterator:
+    """Every paragraph of the body, table cells included, in document order."""
+    from docx.table import Table
+    from docx.text.paragraph import Paragraph
+
+    for item in container.iter_inner_content():
+        if isinstance(item, Paragraph):
+            yield item
+        elif isinstance(item, Table):
+            for row in item.rows:
+                seen = set()
+                for cell in row.cells:
+                    if id(cell._tc) in seen:  # a merged cell appears once per grid column
+                        continue
+                    seen.add(id(cell._tc))
+                    yield from _paragraphs(cell)
+
+
+def _isolate(paragraph, start: int, end: int) -> list | None:
+    """The runs that hold exactly paragraph text [start, end), splitting a run of plain text
+    at either end; None where the paragraph's runs do not spell its text one to one (fields,
+    hyperlinks, tabs inside the span)."""
+    import copy
+
+    from docx.oxml.ns import qn
+    from docx.text.run import Run
+
+    def simple(run) -> bool:
+        children = [child for child in run._r if child.tag != qn("w:rPr")]
+        return len(children) == 1 and children[0].tag == qn("w:t")
+
+    def split(run, at: int):
+        """Cut a plain run at `at`; the second half, a new run after it."""
+        second = copy.deepcopy(run._r)
+        run._r.addnext(second)
+        text = run.text
+        run.text, tail = text[:at], Run(second, run._parent)
+        tail.text = text[at:]
+        return tail
+
+    position = 0
+    runs = []
+    for run in paragraph.runs:
+        length = len(run.text)
+        if position + length <= start or position >= end:
+            position += length
+            continue
+        if position < start:
+            if not simple(run):
+                return None
+            run = split(run, start - position)
+            position = start
+            length = len(run.text)
+        if position + length > end:
+            if not simple(run):
+                return None
+            split(run, end - position)
+        runs.append(run)
+        position += len(run.text)
+    return runs or None
+
+
+def annotate_docx(document: DocumentResult, target: str) -> tuple[int, int]:
+    """Write a copy of the Word document `document.path` to `target` with a comment on every
+    flagged result (anchored to exactly its text where its runs allow); (commented,
+    not anchored)."""
+    import docx
+
+    if os.path.exists(target) and not _is_our_docx(target):
+        raise AnnotationError(target, "exists and was not written by scrutiny; move it or "
+                                      "choose another folder")
+    try:
+        copy = docx.Document(document.path)
+    except Exception as exc:
+        raise AnnotationError(document.path, f"cannot be copied ({type(exc).__name__}: "
+                                             f"{exc})") from None
+    paragraphs = list(_paragraphs(copy))
+    texts = ["".join(run.text for run in paragraph.runs) for paragraph in paragraphs]
+    cursor = (0, 0)  # claims come in document order: search on from the last one found
+    commented = missed = 0
+    for result in document.claims:
+        if not result.flags:
+            continue
+        printed = result.claim.text
+        found = None
+        index, offset = cursor
+        while index < len(paragraphs):
+            at = texts[index].find(printed, offset)
+            if at >= 0:
+                found = (index, at)
+                break
+            index, offset = index + 1, 0
+        runs = None
+        if found is not None:
+            index, at = found
+            runs = _isolate(paragraphs[index], at, at + len(printed))
+            texts[index] = "".join(run.text for run in paragraphs[index].runs)
+            cursor = (index, at + len(printed))
+        if not runs:
+            missed += 1
+            continue
+        messages = "\n\n".join(f"{flag.check} ({flag.severity.label}): {flag.message}"
+                               for flag in result.flags)
+        copy.add_comment(runs, text=messages, author=COMMENT_AUTHOR, initials="sc")
+        commented += 1
+    first = next((paragraph for paragraph in paragraphs if paragraph.runs), None)
+    if first is not None:
+        flags = sum(len(result.flags) for result in document.claims)
+        unanchored = (f" {missed} flagged result{'s' if missed != 1 else ''} could not be "
+                      f"marked in the text (see the report)." if missed else "")
+        copy.add_comment(first.runs[0], author=COMMENT_AUTHOR, initials="sc",
+                         text=f"scrutiny {__version__}: {len(document.claims)} results found, "
+                              f"{flags} flag{'s' if flags != 1 else ''} on {commented + missed} "
+                              f"of them, each commented where it is printed.{unanchored}\n\n"
+                              f"{CAUTION}")
+    folder = os.path.dirname(os.path.abspath(target))
+    handle, temporary = tempfile.mkstemp(prefix=".scrutiny-", suffix=".docx", dir=folder)
+    os.close(handle)
+    try:
+        copy.save(temporary)
+        os.replace(temporary, target)
+    except Exception as exc:
+        if os.path.exists(temporary):
+            os.unlink(temporary)
+        raise AnnotationError(target, f"cannot be written ({type(exc).__name__}: "
+                                      f"{exc})") from None
+    return commented, missed
+
+
+def _is_our_docx(path: str) -> bool:
+    import docx
+
+    try:
+        return any(comment.author == COMMENT_AUTHOR for comment in docx.Document(path).comments)
+    except Exception:
+        return False
