@@ -268,6 +268,26 @@ def _annotate(run: Run, folder: str, settings: Settings, stderr: TextIO) -> bool
     return written_ok
 
 
+def _deliver(text: str, output: str | None, stdout: TextIO) -> None:
+    """Write a finished report to `output` (atomically, UTF-8) or to standard output."""
+    if output is None:
+        stdout.write(text)
+        stdout.flush()
+        return
+    folder = os.path.dirname(os.path.abspath(output))
+    try:
+        handle, temporary = tempfile.mkstemp(prefix=".scrutiny-", dir=folder)
+    except OSError as exc:
+        raise UsageError(f"--output {output}: cannot write there ({exc.strerror})") from None
+    try:
+        with os.fdopen(handle, "w", encoding="utf-8", newline="") as stream:
+            stream.write(text)
+        os.replace(temporary, output)
+    except OSError as exc:
+        os.unlink(temporary)
+        raise UsageError(f"--output {output}: cannot be written ({exc.strerror})") from None
+
+
 def _render_summary(args: argparse.Namespace, store: str, settings: Settings | None,
                     screening=None) -> str:
     buffer = io.StringIO()
