@@ -325,7 +325,7 @@ def test_word_results_outside_the_body_text_are_counted_not_lost(tmp_path):
     document.save(str(source))
     out = tmp_path / "annotated"
     code, _, err = run("check", str(source), "--annotate", str(out))
-    assert code == 1 and "0 flagged results commented, 1 not found in the body text" in err
+    assert code == 1 and "0 flagged results commented, 1 could not be placed in the text" in err
     [summary] = list(docx.Document(str(out / "paper.scrutiny.docx")).comments)
     assert "1 flagged result could not be marked in the text" in summary.text
 

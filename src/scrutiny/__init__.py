@@ -11,7 +11,8 @@ package re-exports the library API from `scrutiny.api` and the records from `scr
 
 __version__ = "0.1.0"
 
-from .api import check_document, check_file, check_paths, check_stream, check_text
+from .api import (AnnotatedCopy, annotate, check_document, check_file, check_paths,
+                  check_stream, check_text)
 from .errors import InputError, ScrutinyError, UsageError
 from .report import CAUTION
 from .model import (
@@ -29,6 +30,7 @@ from .model import (
 )
 
 __all__ = [
+    "AnnotatedCopy",
     "CAUTION",
     "Claim",
     "ClaimResult",
@@ -45,6 +47,7 @@ __all__ = [
     "Status",
     "UsageError",
     "__version__",
+    "annotate",
     "check_document",
     "check_file",
     "check_paths",

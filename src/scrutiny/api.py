@@ -13,6 +13,7 @@ from __future__ import annotations
 import functools
 import os
 import sys
+from dataclasses import dataclass
 from pathlib import Path
 from typing import BinaryIO, Iterable
 
@@ -189,3 +190,51 @@ def _check_one(name: str, settings: Settings, stdin: BinaryIO | None) -> Documen
         return DocumentResult(path=name, format=None,
                               errors=(f"internal error while checking ({type(exc).__name__}: "
                                       f"{exc}); please report it",))
+
+
+@dataclass(frozen=True)
+class AnnotatedCopy:
+    """One annotated copy of a manuscript that `annotate` wrote, or why it could not."""
+
+    path: str                 # the manuscript
+    target: str               # the copy
+    marked: int = 0           # flagged results highlighted (PDF) or commented (Word)
+    missed: int = 0           # flagged results that could not be marked in the text
+    error: str | None = None  # one line, when the copy was not written
+
+
+def annotate(run: Run, folder: str, settings: Settings | None = None
+             ) -> tuple[AnnotatedCopy, ...]:
+    """Write annotated copies of the PDF and Word documents of `run` that have flags into
+    `folder` (created if missing): `NAME.scrutiny.pdf` with highlights, `NAME.scrutiny.docx`
+    with comments (see `report.annotate`). Each copy is written in a child process with the
+    settings' time and memory ceilings; one that fails is reported and the others are still
+    written. The manuscripts are only read."""
+    from .report.annotate import annotate_docx, annotate_pdf
+
+    settings = settings or run.settings
+    flagged = [document for document in run.documents
+               if document.format in ("pdf", "docx")
+               and any(result.flags for result in document.claims)]
+    if flagged:
+        os.makedirs(folder, exist_ok=True)
+    copies = []
+    used: set[str] = set()
+    for document in flagged:
+        suffix = ".scrutiny.pdf" if document.format == "pdf" else ".scrutiny.docx"
+        stem = os.path.splitext(os.path.basename(document.path))[0]
+        name, count = stem + suffix, 2
+        while name in used:  # two inputs of the same name from different folders
+            name, count = f"{stem}-{count}{suffix}", count + 1
+        used.add(name)
+        target = os.path.join(folder, name)
+        write = annotate_pdf if document.format == "pdf" else annotate_docx
+        try:
+            done = run_guarded(document.path, functools.partial(write, document, target),
+                               settings.time_limit, settings.memory_limit_mb * 2**20)
+        except InputError as exc:
+            copies.append(AnnotatedCopy(document.path, target, error=str(exc)))
+            continue
+        marked, missed = done
+        copies.append(AnnotatedCopy(document.path, target, marked, missed))
+    return tuple(copies)

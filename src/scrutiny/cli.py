@@ -22,7 +22,7 @@ import tempfile
 from typing import Sequence, TextIO
 
 from . import __version__
-from .api import check_paths
+from .api import annotate, check_paths
 from .check import REGISTRY
 from .errors import ScrutinyError, UsageError
 from .model import Run, Settings, Severity
@@ -224,48 +224,22 @@ def _refuse_output_among_inputs(output: str, inputs: Sequence[str],
 
 
 def _annotate(run: Run, folder: str, settings: Settings, stderr: TextIO) -> bool:
-    """Annotated copies of the flagged PDF and Word documents; False when one could not be
-    written."""
-    from .ingest.guard import run_guarded
-    from .report.annotate import annotate_docx, annotate_pdf
-
-    flagged = [document for document in run.documents
-               if document.format in ("pdf", "docx")
-               and any(result.flags for result in document.claims)]
-    if not flagged:
-        return True
+    """Annotated copies of the flagged PDF and Word documents, each reported in one line;
+    False when one could not be written."""
     try:
-        os.makedirs(folder, exist_ok=True)
+        copies = annotate(run, folder, settings)
     except OSError as exc:
         raise UsageError(f"--annotate {folder}: cannot be created ({exc.strerror})") from None
-    written_ok = True
-    used: set[str] = set()
-    for document in flagged:
-        suffix = ".scrutiny.pdf" if document.format == "pdf" else ".scrutiny.docx"
-        stem = os.path.splitext(os.path.basename(document.path))[0]
-        name, count = stem + suffix, 2
-        while name in used:  # two inputs of the same name from different folders
-            name, count = f"{stem}-{count}{suffix}", count + 1
-        used.add(name)
-        target = os.path.join(folder, name)
-        work = (lambda: annotate_pdf(document, target)) if document.format == "pdf" else (
-            lambda: annotate_docx(document, target))
-        try:
-            done = run_guarded(document.path, work, settings.time_limit,
-                               settings.memory_limit_mb * 2**20)
-        except ScrutinyError as exc:
-            stderr.write(f"scrutiny: {exc}\n")
-            written_ok = False
+    for copy in copies:
+        if copy.error is not None:
+            stderr.write(f"scrutiny: {copy.error}\n")
             continue
-        if document.format == "pdf":
-            stderr.write(f"scrutiny: {target}: {done} flagged result"
-                         f"{'s' if done != 1 else ''} highlighted\n")
-        else:
-            commented, missed = done
-            stderr.write(f"scrutiny: {target}: {commented} flagged result"
-                         f"{'s' if commented != 1 else ''} commented"
-                         + (f", {missed} not found in the body text" if missed else "") + "\n")
-    return written_ok
+        verb = "highlighted" if copy.target.endswith(".pdf") else "commented"
+        stderr.write(f"scrutiny: {copy.target}: {copy.marked} flagged result"
+                     f"{'s' if copy.marked != 1 else ''} {verb}"
+                     + (f", {copy.missed} could not be placed in the text" if copy.missed else "")
+                     + "\n")
+    return all(copy.error is None for copy in copies)
 
 
 def _deliver(text: str, output: str | None, stdout: TextIO) -> None:

@@ -70,10 +70,10 @@ def _is_ours(path: str) -> bool:
     return MARKER in metadata
 
 
-def annotate_pdf(document: DocumentResult, target: str) -> int:
-    """Write an annotated copy of the PDF `document.path` to `target`; the number of flagged
-    results highlighted. The target is replaced only if scrutiny wrote it, and only once the
-    copy is complete."""
+def annotate_pdf(document: DocumentResult, target: str) -> tuple[int, int]:
+    """Write an annotated copy of the PDF `document.path` to `target`; (highlighted, not
+    placed) flagged results. The target is replaced only if scrutiny wrote it, and only once
+    the copy is complete."""
     from pypdf import PdfReader, PdfWriter
     from pypdf.annotations import Highlight, Text
     from pypdf.generic import ArrayObject, FloatObject, NameObject, TextStringObject
@@ -92,9 +92,12 @@ def annotate_pdf(document: DocumentResult, target: str) -> int:
         annotation[NameObject("/Subj")] = TextStringObject(subject)
         annotation[NameObject("/Contents")] = TextStringObject(contents)
 
-    highlighted = 0
+    highlighted = missed = 0
     for result in document.claims:
-        if not result.flags or not result.claim.location.boxes:
+        if not result.flags:
+            continue
+        if not result.claim.location.boxes:
+            missed += 1
             continue
         worst = max(flag.severity for flag in result.flags)
         messages = "\n\n".join(f"{flag.check} ({flag.severity.label}): {flag.message}"
@@ -127,9 +130,11 @@ def annotate_pdf(document: DocumentResult, target: str) -> int:
                                  max(crop.left, crop.right), max(crop.bottom, crop.top)),
                                 first.rotation % 360)
         flags = sum(len(result.flags) for result in document.claims)
+        unplaced = (f" {missed} flagged result{'s' if missed != 1 else ''} could not be "
+                    f"placed on the page (see the report)." if missed else "")
         summary = (f"scrutiny {__version__}: {len(document.claims)} results found, "
-                   f"{flags} flag{'s' if flags != 1 else ''} on {highlighted} of them "
-                   f"(highlighted; open a highlight for its messages).\n\n{CAUTION}")
+                   f"{flags} flag{'s' if flags != 1 else ''} on {highlighted + missed} of them, "
+                   f"highlighted (open a highlight for its messages).{unplaced}\n\n{CAUTION}")
         sticky = Text(rect=corner, text=summary, open=False)
         note(sticky, summary, "scrutiny summary")
         writer.add_annotation(page_number=0, annotation=sticky)
@@ -146,7 +151,7 @@ def annotate_pdf(document: DocumentResult, target: str) -> int:
             os.unlink(temporary)
         raise AnnotationError(target, f"cannot be written ({type(exc).__name__}: "
                                       f"{exc})") from None
-    return highlighted
+    return highlighted, missed
 
 
 # -- Word ------------------------------------------------------------------------------------
