@@ -140,18 +140,27 @@ def annotate_pdf(document: DocumentResult, target: str) -> tuple[int, int]:
         writer.add_annotation(page_number=0, annotation=sticky)
     writer.add_metadata({MARKER: __version__})
 
+    _write_atomically(target, ".pdf", writer.write)
+    return highlighted, missed
+
+
+def _write_atomically(target: str, suffix: str, write) -> None:
+    """`write(path)` into a temporary file beside `target`, then put it in place: a failure
+    leaves no half-written copy and whatever was at `target` untouched."""
     folder = os.path.dirname(os.path.abspath(target))
-    handle, temporary = tempfile.mkstemp(prefix=".scrutiny-", suffix=".pdf", dir=folder)
     try:
-        with os.fdopen(handle, "wb") as stream:
-            writer.write(stream)
+        handle, temporary = tempfile.mkstemp(prefix=".scrutiny-", suffix=suffix, dir=folder)
+        os.close(handle)
+    except OSError as exc:
+        raise AnnotationError(target, f"cannot be written ({exc.strerror})") from None
+    try:
+        write(temporary)
         os.replace(temporary, target)
     except Exception as exc:
         if os.path.exists(temporary):
             os.unlink(temporary)
         raise AnnotationError(target, f"cannot be written ({type(exc).__name__}: "
                                       f"{exc})") from None
-    return highlighted, missed
 
 
 # -- Word ------------------------------------------------------------------------------------
@@ -280,17 +289,7 @@ def annotate_docx(document: DocumentResult, target: str) -> tuple[int, int]:
                               f"{flags} flag{'s' if flags != 1 else ''} on {commented + missed} "
                               f"of them, each commented where it is printed.{unanchored}\n\n"
                               f"{CAUTION}")
-    folder = os.path.dirname(os.path.abspath(target))
-    handle, temporary = tempfile.mkstemp(prefix=".scrutiny-", suffix=".docx", dir=folder)
-    os.close(handle)
-    try:
-        copy.save(temporary)
-        os.replace(temporary, target)
-    except Exception as exc:
-        if os.path.exists(temporary):
-            os.unlink(temporary)
-        raise AnnotationError(target, f"cannot be written ({type(exc).__name__}: "
-                                      f"{exc})") from None
+    _write_atomically(target, ".docx", copy.save)
     return commented, missed
 
 
