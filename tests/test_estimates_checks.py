@@ -184,6 +184,23 @@ def test_grim_not_raised(text, settings, reason):
         assert result.status is Status.UNCHECKED and reason in result.reason
 
 
+def test_grim_of_a_sum_score_over_several_items():
+    # A total over 20 items of a 4-point scale is one integer per person (a sum of integers),
+    # so its mean has granularity 1/n, as a single item's does. 41.38 x 30 = 1241.4,
+    # and 1241/30 = 41.367, 1242/30 = 41.400: impossible; 41.37 (S = 1241) is possible.
+    # Read as a mean of item means (granularity 1/600) both would be "not testable".
+    stem = "Anxiety was measured with a 20-item questionnaire on a 4-point scale; the total "
+    flagged = only_result(stem + "score averaged M = 41.38 (SD = 8.22, n = 30).")
+    assert [f.check for f in flagged.flags] == ["grim"]
+    assert "integer sum scores over 20 items" in flagged.flags[0].message
+    possible = only_result(stem + "score averaged M = 41.37 (SD = 8.22, n = 30).")
+    assert possible.flags == () and possible.status is Status.CONSISTENT
+    # an item mean of the same scale stays a mean over n x items = 600 answers
+    item_mean = only_result(stem.replace("the total ", "the item ") + "mean was M = 2.07 "
+                            "(n = 30).")
+    assert item_mean.flags == () and "not testable" in item_mean.reason
+
+
 @pytest.mark.parametrize("text", [
     "The mean of the site means was 3.48 (SD = 0.40, n = 20) on the 7-point scale.",
     "The grand mean of boldness on the 7-point scale was M = 3.48 (SD = 0.51, n = 20).",

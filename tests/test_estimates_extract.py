@@ -28,7 +28,7 @@ CASES_FILE = Path(__file__).parent / "data" / "estimate_cases.toml"
 CASES = tomllib.loads(CASES_FILE.read_text(encoding="utf-8"))["case"]
 
 CASE_KEYS = {"text", "note", "claims"}
-DESCRIPTIVE_KEYS = ("mean", "sd", "n", "items", "integer_cue")
+DESCRIPTIVE_KEYS = ("mean", "sd", "n", "items", "integer_cue", "sum_score")
 PROPORTION_KEYS = ("percent", "count", "base", "weighted")
 ESTIMATE_KEYS = ("label", "value", "low", "high", "level", "se", "ratio")
 COMMON_KEYS = {"test", "p_comparator", "p_reported", "span", "line"}
@@ -60,7 +60,8 @@ def _expected(entry: dict) -> dict:
         "estimate": _estimate(entry.get("estimate")),
     }
     if test == "mean":
-        expected["descriptive"] = {key: entry.get(key) for key in DESCRIPTIVE_KEYS}
+        expected["descriptive"] = {key: entry.get(key, False if key == "sum_score" else None)
+                                   for key in DESCRIPTIVE_KEYS}
         expected["statistic"] = entry["mean"]
     elif test == "percent":
         expected["proportion"] = {key: entry.get(key, False if key == "weighted" else None)

@@ -232,7 +232,9 @@ class Descriptive:
 
     `integer_cue` holds the words that say the measure is integer-valued ("7-point scale",
     "number of errors"), `items` the number of items of a scale when printed; both decide
-    whether the granularity tests (GRIM, GRIMMER) apply.
+    whether the granularity tests (GRIM, GRIMMER) apply. `sum_score` is true when the mean
+    of a several-item scale lies above the top of one item: a mean of sum scores, whose
+    granularity is 1/n rather than 1/(n x items).
     """
 
     mean: str
@@ -240,6 +242,7 @@ class Descriptive:
     n: str | None = None
     items: str | None = None
     integer_cue: str | None = None
+    sum_score: bool = False
 
 
 @dataclass(frozen=True, slots=True)

@@ -25,6 +25,9 @@ def _assumption(claim: Claim, settings: Settings) -> str:
     items = described.items or "1"
     why = (f"the text says \"{described.integer_cue}\"" if described.integer_cue
            else "--integer-scales declares it")
+    if described.sum_score:
+        return (f"assuming integer sum scores over {items} items from n = {described.n} people "
+                f"({why}, and the mean lies above the top of one item)")
     return (f"assuming integer responses from n = {described.n} people on {items} item"
             f"{'s' if items != '1' else ''} ({why})")
 

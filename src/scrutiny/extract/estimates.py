@@ -194,7 +194,7 @@ def _scale_holds(cue: regex.Match, mean: float | None, items: float) -> bool:
     return True
 
 
-def _integer_cue(reader: _Reader, match: regex.Match, items: float) -> str | None:
+def _integer_cue(reader: _Reader, match: regex.Match, items: float) -> regex.Match | None:
     """The words that say this mean is of integer-valued data, if any (see the module notes)."""
     if _captured(match, "unit"):
         return None  # "12.4 g", "21.3 years": a measurement
@@ -213,8 +213,21 @@ def _integer_cue(reader: _Reader, match: regex.Match, items: float) -> str | Non
                  if _scale_holds(m, mean, items)]
     if not found:
         return None
-    nearest = min(found, key=lambda m: abs(m.start() - position))
-    return WHITESPACE.sub(" ", nearest.group()).strip()
+    return min(found, key=lambda m: abs(m.start() - position))
+
+
+def _is_sum_score(cue: regex.Match | None, mean: str, items: float) -> bool:
+    """A mean over several items above the top of the items' scale ("a 20-item questionnaire
+    on a 4-point scale ... M = 41.37") is a mean of sum scores: each person's score is an
+    integer, whatever the number of items."""
+    if cue is None or items <= 1:
+        return False
+    groups = cue.groupdict()
+    high = _number(groups.get("points")) or _number(groups.get("scale_high"))
+    try:
+        return high is not None and parse_printed(mean).value > high
+    except UnreadableNumber:
+        return False
 
 
 def _count_is_about(reader: _Reader, cue: regex.Match, match: regex.Match) -> bool:
@@ -269,13 +282,15 @@ def _descriptives(reader: _Reader) -> list[Claim]:
                 n = reader.printed(found[0], "size" if found[0].groupdict().get("size")
                                    else "total")
         items = reader.nearby("item-count", match.start())
+        item_count = (_number(items.group("items")) or 1.0) if items is not None else 1.0
+        cue = _integer_cue(reader, match, item_count)
         descriptive = Descriptive(
             mean=reader.printed(match, "mean") or "",
             sd=sd,
             n=n,
             items=items.group("items") if items is not None else None,
-            integer_cue=_integer_cue(reader, match, (_number(items.group("items")) or 1.0)
-                                     if items is not None else 1.0),
+            integer_cue=WHITESPACE.sub(" ", cue.group()).strip() if cue is not None else None,
+            sum_score=_is_sum_score(cue, match.group("mean"), item_count),
         )
         claims.append(reader.claim("mean", "descriptive", match, descriptive.mean, match.end(),
                                    descriptive=descriptive))

@@ -54,7 +54,8 @@ def recompute_mean(claim: Claim, settings: Settings) -> Recomputed:
     n = _count(described.n)
     if n is None:
         return Recomputed(reason="no n printed for this mean")
-    items = _count(described.items) or 1
+    # a sum score is one integer per person, however many items it adds up
+    items = 1 if described.sum_score else (_count(described.items) or 1)
     try:
         mean = parse_printed(described.mean)
         sd = parse_printed(described.sd) if described.sd else None
