@@ -340,3 +340,12 @@ def test_a_foreign_word_file_is_never_replaced(tmp_path):
     code, _, err = run("check", str(source), "--annotate", str(out))
     assert code == 2 and "exists and was not written by scrutiny" in err
     assert (out / "paper.scrutiny.docx").read_bytes() == b"the user's own file"
+
+
+@needs_fonts
+def test_a_pdf_from_standard_input_has_no_file_to_copy(tmp_path):
+    data = manuscript_pdf(PARAGRAPHS[:1], Layout()).data
+    out = tmp_path / "annotated"
+    code, _, err = run("check", "-", "--annotate", str(out), stdin=data)
+    assert code == 2 and "read from standard input, so there is no file to copy" in err
+    assert err.count("\n") == 1 and "Traceback" not in err

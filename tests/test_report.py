@@ -13,6 +13,8 @@ import csv
 import io
 import json
 import os
+import stat
+import threading
 from html.parser import HTMLParser
 
 import pytest
@@ -327,3 +329,35 @@ def test_every_new_format_carries_the_caution(tmp_path):
     for format in ("csv", "sarif", "html"):
         out = run("check", str(manuscript), "--format", format)[1]
         assert scrutiny.CAUTION in out, format
+
+
+def test_output_follows_a_link_and_keeps_the_file_s_mode(tmp_path):
+    manuscript = tmp_path / "paper.txt"
+    manuscript.write_text(MISMATCH, encoding="utf-8")
+    real = tmp_path / "reports" / "real.csv"
+    real.parent.mkdir()
+    real.write_text("an old report\n", encoding="utf-8")
+    os.chmod(real, 0o640)
+    link = tmp_path / "latest.csv"
+    link.symlink_to(real)
+    assert run("check", str(manuscript), "--format", "csv", "--output", str(link))[0] == 1
+    assert link.is_symlink() and os.readlink(link) == str(real)
+    assert real.read_text(encoding="utf-8").startswith("# " + scrutiny.CAUTION)
+    assert stat.S_IMODE(os.stat(real).st_mode) == 0o640
+
+
+def test_output_into_a_pipe_writes_into_it_and_never_replaces_it(tmp_path):
+    # a device or a named pipe (/dev/null, /dev/stdout, a FIFO) must be written to, not
+    # replaced by a regular file
+    manuscript = tmp_path / "paper.txt"
+    manuscript.write_text(MISMATCH, encoding="utf-8")
+    pipe = tmp_path / "pipe"
+    os.mkfifo(pipe)
+    received: list[bytes] = []
+    reader = threading.Thread(target=lambda: received.append(pipe.read_bytes()))
+    reader.start()
+    code, out, err = run("check", str(manuscript), "--format", "csv", "--output", str(pipe))
+    reader.join(30)
+    assert (code, out) == (1, "")
+    assert stat.S_ISFIFO(os.stat(pipe).st_mode)
+    assert received and received[0].decode("utf-8").startswith("# " + scrutiny.CAUTION)

@@ -228,6 +228,11 @@ def annotate(run: Run, folder: str, settings: Settings | None = None
             name, count = f"{stem}-{count}{suffix}", count + 1
         used.add(name)
         target = os.path.join(folder, name)
+        if not os.path.isfile(document.path):
+            copies.append(AnnotatedCopy(document.path, target, error=(
+                f"{document.path}: read from standard input, so there is no file to copy; "
+                f"save it as a file to annotate it")))
+            continue
         write = annotate_pdf if document.format == "pdf" else annotate_docx
         try:
             done = run_guarded(document.path, functools.partial(write, document, target),

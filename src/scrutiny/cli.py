@@ -243,22 +243,42 @@ def _annotate(run: Run, folder: str, settings: Settings, stderr: TextIO) -> bool
 
 
 def _deliver(text: str, output: str | None, stdout: TextIO) -> None:
-    """Write a finished report to `output` (atomically, UTF-8) or to standard output."""
+    """Write a finished report to `output` in UTF-8, or to standard output.
+
+    A regular file (or a new one) is replaced atomically: a temporary file beside it is put in
+    its place once complete, so an interrupted run leaves the old report. Anything else that
+    already exists (/dev/null, /dev/stdout, a named pipe) is written to as it is, never
+    replaced. A symbolic link is followed."""
     if output is None:
         stdout.write(text)
         stdout.flush()
         return
-    folder = os.path.dirname(os.path.abspath(output))
+    target = os.path.realpath(output)
+    if os.path.exists(target) and not os.path.isfile(target):
+        try:
+            with open(target, "w", encoding="utf-8", newline="") as stream:
+                stream.write(text)
+        except OSError as exc:
+            raise UsageError(f"--output {output}: cannot be written ({exc.strerror})") from None
+        return
     try:
-        handle, temporary = tempfile.mkstemp(prefix=".scrutiny-", dir=folder)
+        handle, temporary = tempfile.mkstemp(prefix=".scrutiny-",
+                                             dir=os.path.dirname(target))
     except OSError as exc:
         raise UsageError(f"--output {output}: cannot write there ({exc.strerror})") from None
     try:
         with os.fdopen(handle, "w", encoding="utf-8", newline="") as stream:
             stream.write(text)
-        os.replace(temporary, output)
+        if os.path.exists(target):
+            os.chmod(temporary, os.stat(target).st_mode & 0o7777)  # keep the old file's mode
+        else:
+            umask = os.umask(0)
+            os.umask(umask)
+            os.chmod(temporary, 0o666 & ~umask)  # as a file created by open() would be
+        os.replace(temporary, target)
     except OSError as exc:
-        os.unlink(temporary)
+        if os.path.exists(temporary):
+            os.unlink(temporary)
         raise UsageError(f"--output {output}: cannot be written ({exc.strerror})") from None
 
 
