@@ -361,3 +361,33 @@ def test_output_into_a_pipe_writes_into_it_and_never_replaces_it(tmp_path):
     assert (code, out) == (1, "")
     assert stat.S_ISFIFO(os.stat(pipe).st_mode)
     assert received and received[0].decode("utf-8").startswith("# " + scrutiny.CAUTION)
+
+
+# -- the JSON Schema of the report -----------------------------------------------------------
+
+def test_every_json_report_follows_the_published_schema(tmp_path):
+    # the schema (src/scrutiny/report/schema/report-1.json) is checked with jsonschema, a
+    # general-purpose validator: a key added, dropped or retyped without the schema fails
+    jsonschema = pytest.importorskip("jsonschema")
+    from scrutiny.report.json import SCHEMA_PATH
+
+    schema = json.loads(SCHEMA_PATH.read_text(encoding="utf-8"))
+    jsonschema.Draft202012Validator.check_schema(schema)
+    validator = jsonschema.Draft202012Validator(schema)
+    (tmp_path / "broken.pdf").write_bytes(b"%PDF-1.7 not really")
+    (tmp_path / "notes.csv").write_text("a,b\n", encoding="utf-8")
+    (tmp_path / "paper.tex").write_text(
+        "\\documentclass{article}\\begin{document}Voles dug deeper, $t(28) = 2.20$, "
+        "$p = .01$.\\end{document}\n", encoding="utf-8")
+    repository = GOLDEN.parent.parent.parent
+    inputs = [str(GOLDEN / "manuscript.md"), str(repository / "samples"),
+              str(GOLDEN.parent / "markup"), str(tmp_path)]
+    for given in inputs:
+        report = json.loads(run("check", given, "--format", "json")[1])
+        problems = [f"{error.json_path}: {error.message}"
+                    for error in validator.iter_errors(report)]
+        assert not problems, (given, problems[:5])
+        assert report["summary"]["claims"] > 0
+    # a key the schema does not know is refused
+    report["summary"]["surprise"] = 1
+    assert not validator.is_valid(report)

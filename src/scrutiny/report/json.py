@@ -1,13 +1,16 @@
 """JSON report: the machine contract (schema version 1, documented in the README).
 
 Numbers are JSON numbers, printed strings stay strings, and a missing value is null. Keys are
-never dropped: a consumer can rely on every key of the schema being present.
+never dropped: a consumer can rely on every key of the schema being present. The contract is
+also published as a JSON Schema (draft 2020-12) at `SCHEMA_PATH`, which the tests hold every
+report to.
 """
 
 from __future__ import annotations
 
 import json
 import math
+from pathlib import Path
 from typing import Any, TextIO
 
 from .. import __version__
@@ -16,6 +19,8 @@ from ..rounding import UnreadableNumber, parse_printed
 from . import CAUTION, Summary
 
 SCHEMA_VERSION = 1
+#: the JSON Schema of the report, shipped with the package
+SCHEMA_PATH = Path(__file__).resolve().parent / "schema" / f"report-{SCHEMA_VERSION}.json"
 
 
 def _number(value: float | None) -> float | int | None:
