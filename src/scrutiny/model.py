@@ -259,7 +259,8 @@ class Proportion:
 class Estimate:
     """An estimate printed with a confidence interval or a standard error, as printed.
 
-    `label` is the symbol ("OR", "HR", "d", "B", "b", "β"); `ratio` is True for odds, risk,
+    `label` is the symbol ("OR", "HR", "d", "B", "b", "β"; a ratio named in words is given by
+    its abbreviation: "adjusted odds ratio" is "aOR"); `ratio` is True for odds, risk,
     hazard and rate ratios, whose intervals are symmetric on the log scale; `level` is the
     confidence level printed ("95").
     """

@@ -48,7 +48,7 @@ from .statistics import comparator
 _P_WINDOW = 150
 #: how far before a t or z its coefficient and SE may end ("b = 0.33, SE = 0.13, t(...)")
 _COEFFICIENT_GAP = 40
-_RATIO_LABELS = frozenset({"OR", "aOR", "HR", "aHR", "RR", "aRR", "IRR", "aIRR", "PR"})
+_RATIO_LABELS = frozenset({"OR", "aOR", "HR", "aHR", "RR", "aRR", "IRR", "aIRR", "PR", "aPR"})
 #: what may stand between a coefficient (or an interval) and the test of it
 _SEPARATORS = regex.compile(r"[\s,;()\[\]]*(?:(?:Wald|Wald's|Wald’s)\s*)?")
 #: how far before (after) a mean a count cue may stand to be about it
@@ -323,8 +323,24 @@ def _proportions(reader: _Reader) -> list[Claim]:
     return claims
 
 
+#: ratios named in words, by their usual abbreviation
+_RATIO_WORDS = {"odds ratio": "OR", "hazard ratio": "HR", "risk ratio": "RR", "relative risk": "RR",
+                "rate ratio": "IRR", "incidence rate ratio": "IRR", "prevalence ratio": "PR"}
+
+
+def _label(printed: str) -> str:
+    """The estimate's symbol: as printed, or the abbreviation of a ratio named in words
+    ("adjusted odds ratio" -> "aOR")."""
+    words = " ".join(printed.lower().split())
+    adjusted = words.startswith("adjusted ")
+    abbreviation = _RATIO_WORDS.get(words[len("adjusted "):] if adjusted else words)
+    if abbreviation is None:
+        return printed
+    return "a" + abbreviation if adjusted else abbreviation
+
+
 def _estimate(reader: _Reader, match: regex.Match, kind: str) -> Estimate:
-    label = match.group("label")
+    label = _label(match.group("label"))
     return Estimate(
         label=label,
         value=reader.printed(match, "value") or "",
