@@ -51,6 +51,11 @@ _COEFFICIENT_GAP = 40
 _RATIO_LABELS = frozenset({"OR", "aOR", "HR", "aHR", "RR", "aRR", "IRR", "aIRR", "PR", "aPR"})
 #: what may stand between a coefficient (or an interval) and the test of it
 _SEPARATORS = regex.compile(r"[\s,;()\[\]]*(?:(?:Wald|Wald's|Wald’s)\s*)?")
+#: ... and, between a coefficient and its t or z, its standardised version: "B = 0.34,
+#: SE = 0.12, β = .23, t(120) = 2.80"
+_STANDARDISED_BETWEEN = regex.compile(
+    r"[\s,;()\[\]]*(?:(?:β|beta|standardi[sz]ed\s+β)\s*=\s*-?\d*\.?\d+[\s,;()\[\]]*)?"
+    r"(?:(?:Wald|Wald's|Wald’s)\s*)?")
 #: how far before (after) a mean a count cue may stand to be about it
 _COUNT_CUE_BEFORE = 60
 _COUNT_CUE_AFTER = 30
@@ -381,9 +386,10 @@ def _owner(reader: _Reader, match: regex.Match, kind: str) -> int | None:
     # a coefficient and SE (or an estimate and its interval) printed right before the t or z
     # that tests it: "b = 0.33, SE = 0.13, t(...)", "OR = 2.31, 95% CI [1.20, 4.45], z = 2.50"
     index = bisect_right(reader.test_starts, match.end())
+    between = _STANDARDISED_BETWEEN if kind == "coefficient" else _SEPARATORS
     if index < len(reader.tests) and reader.tests[index].test in ("t", "z") and \
             reader.test_starts[index] - match.end() <= _COEFFICIENT_GAP and \
-            _SEPARATORS.fullmatch(reader.text, match.end(), reader.test_starts[index]):
+            between.fullmatch(reader.text, match.end(), reader.test_starts[index]):
         return index
     if kind == "coefficient":
         return None
