@@ -391,3 +391,29 @@ def test_every_json_report_follows_the_published_schema(tmp_path):
     # a key the schema does not know is refused
     report["summary"]["surprise"] = 1
     assert not validator.is_valid(report)
+
+
+def test_every_format_renders_every_case_of_the_extraction_tables():
+    # the 350 and more printed results of every kind the extraction tables hold, in one run: no
+    # format may fail on any of them, and each says how many results it shows
+    from scrutiny.model import Run
+    from scrutiny.report import FORMATS, render
+
+    try:
+        import tomllib
+    except ModuleNotFoundError:  # Python 3.10
+        import tomli as tomllib
+    cases = [case for name in ("extraction_cases.toml", "estimate_cases.toml")
+             for case in tomllib.loads((GOLDEN.parent / name).read_text(encoding="utf-8"))["case"]]
+    documents = tuple(scrutiny.check_text(case["text"], path=f"case-{index}.txt")
+                      for index, case in enumerate(cases))
+    run_of_all = Run(settings=scrutiny.Settings(), documents=documents, skipped=())
+    claims = sum(len(document.claims) for document in documents)
+    assert claims > 350
+    for format in FORMATS:
+        out = io.StringIO()
+        render(run_of_all, format, out, width=120)
+        assert scrutiny.CAUTION in " ".join(out.getvalue().split()), format
+    out = io.StringIO()
+    render(run_of_all, "csv", out)
+    assert len(_csv_rows(out.getvalue())) == claims
