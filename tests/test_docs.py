@@ -43,3 +43,12 @@ def test_the_wheel_carries_the_patterns(tmp_path):
     names = zipfile.ZipFile(wheel).namelist()
     shipped = sorted(n.rsplit("/", 1)[1] for n in names if n.startswith("scrutiny/patterns/"))
     assert shipped == sorted(p.name for p in (REPOSITORY / "patterns").glob("*.toml"))
+
+
+def test_the_readme_example_agrees_with_the_golden_report():
+    # the "What you get" excerpt ends with the golden report's own summary line
+    golden = (REPOSITORY / "tests" / "data" / "golden" / "manuscript.txt").read_text(
+        encoding="utf-8")
+    summary = next(line for line in golden.splitlines() if line.startswith("1 document:"))
+    example = README.split("## What you get", 1)[1].split("```", 2)[1]
+    assert summary.strip() in example
