@@ -141,6 +141,15 @@ def test_screen_stores_every_document_and_summarises(corpus, tmp_path):
     assert summary.p_curve.significant > 20
     rows = sqlite3.connect(store).execute("SELECT path, readable FROM documents").fetchall()
     assert len(rows) == FILES and sum(readable for _, readable in rows) == FILES - 1
+    # every document with a flag, and the unreadable one, listed for a look: decision flips
+    # first (samples/expected-flags.toml plants two in each of two samples), the unreadable
+    # file, with no flags, last
+    tallies = summary.documents_to_look_at
+    assert len(tallies) == FILES
+    assert [t.decision_flips for t in tallies[:2]] == [2, 2]
+    assert tallies[-1].unreadable and tallies[-1].path.endswith("broken.txt")
+    flips = sum(t.decision_flips for t in tallies)
+    assert flips == summary.flags["decision-flip"]
 
 
 def test_screen_resumes_and_rechecks_changed_files(corpus, tmp_path):
@@ -207,9 +216,11 @@ def test_screen_and_summary_commands(corpus, tmp_path):
     assert code == 0
     assert report["run"]["checked"] == FILES and report["documents"] == FILES
     assert "p_curve" in report and len(report["caliper"]) == 4
+    assert len(report["documents_to_look_at"]) == FILES
     assert "broken.txt: binary file" in err
     code, out, _ = _run("summary", store)
     assert code == 0 and "p-curve" in out and "caliper test" in out
+    assert "Documents to look at first" in out and "broken.txt" in out
 
 
 @pytest.mark.parametrize("argv, fragment", [

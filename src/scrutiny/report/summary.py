@@ -15,6 +15,10 @@ from ..screen import CorpusSummary, Screening
 from . import CAUTION
 
 
+#: how many documents the text summary lists under "Documents to look at first"
+DOCUMENTS_SHOWN = 20
+
+
 def _test(pair: tuple[float, float] | None) -> str:
     return f"Z = {pair[0]:.2f}, p = {format_p(pair[1])}" if pair else "-"
 
@@ -51,6 +55,11 @@ def summary_json(summary: CorpusSummary, screening: Screening | None = None) -> 
         },
         "caliper": [{"width": c.width, "over": c.over, "under": c.under, "p": c.p}
                     for c in summary.calipers],
+        "documents_to_look_at": [
+            {"path": t.path, "claims": t.claims, "inconsistent": t.inconsistent,
+             "decision_flips": t.decision_flips, "errors": t.errors, "warnings": t.warnings,
+             "unreadable": t.unreadable}
+            for t in summary.documents_to_look_at],
         "notes": summary.notes,
     }
 
@@ -81,6 +90,23 @@ def render_summary(summary: CorpusSummary, format: str, stream: TextIO,
         for check_id, count in summary.flags.items():
             table.add_row(check_id, str(count), str(summary.documents_flagged.get(check_id, 0)))
         console.print(table)
+    if summary.documents_to_look_at:
+        shown = summary.documents_to_look_at[:DOCUMENTS_SHOWN]
+        table = Table(title="Documents to look at first", show_edge=False, header_style="bold")
+        table.add_column("document", overflow="fold")
+        for column in ("results", "inconsistent", "decision flips", "errors", "warnings"):
+            table.add_column(column, justify="right")
+        for tally in shown:
+            if tally.unreadable:
+                table.add_row(tally.path, "could not be read", "", "", "", "")
+                continue
+            table.add_row(tally.path, str(tally.claims), str(tally.inconsistent),
+                          str(tally.decision_flips), str(tally.errors), str(tally.warnings))
+        console.print(table)
+        hidden = len(summary.documents_to_look_at) - len(shown)
+        if hidden:
+            console.print(Text(f"  and {hidden} more (all of them with --format json or csv)",
+                               style="dim"))
     curve = summary.p_curve
     console.print(Text("p-curve", style="bold"))
     console.print(f"  {curve.significant} significant results, {curve.below_025} below .025; "

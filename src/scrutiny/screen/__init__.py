@@ -168,6 +168,19 @@ TEST_FAMILIES = ("t", "F", "chi2", "r", "z")
 
 
 @dataclass(frozen=True)
+class DocumentTally:
+    """One document of a screening, counted: where a reader of the summary should look first."""
+
+    path: str
+    claims: int
+    inconsistent: int
+    decision_flips: int
+    errors: int                               # flags of severity error
+    warnings: int                             # flags of severity warning
+    unreadable: bool = False
+
+
+@dataclass(frozen=True)
 class CorpusSummary:
     """A screening seen as a whole."""
 
@@ -183,6 +196,8 @@ class CorpusSummary:
     calipers: list[Caliper]
     settings: str | None = None
     notes: list[str] = field(default_factory=list)
+    #: every document with a flag or that could not be read, most errors first
+    documents_to_look_at: list[DocumentTally] = field(default_factory=list)
 
 
 def _screening(store_path: str, settings: Settings | None) -> tuple[str | None,
@@ -217,14 +232,17 @@ def summarise(store_path: str, settings: Settings | None = None) -> CorpusSummar
     flagged_documents: dict[str, int] = {}
     harmonised, p_values = [], []
     claims = tests = 0
+    tallies = []
     for document in documents:
         seen: set[str] = set()
+        severities: dict[str, int] = {}
         for claim in document.result.get("claims", []):
             claims += 1
             status[claim["status"]] = status.get(claim["status"], 0) + 1
             for flag in claim["flags"]:
                 flags[flag["check"]] = flags.get(flag["check"], 0) + 1
                 seen.add(flag["check"])
+                severities[flag["severity"]] = severities.get(flag["severity"], 0) + 1
             if claim["test"] not in TEST_FAMILIES:
                 continue
             tests += 1
@@ -234,6 +252,17 @@ def summarise(store_path: str, settings: Settings | None = None) -> CorpusSummar
                 p_values.append(result.p)
         for check_id in seen:
             flagged_documents[check_id] = flagged_documents.get(check_id, 0) + 1
+        document_claims = document.result.get("claims", [])
+        if seen or not document.readable:
+            tallies.append(DocumentTally(
+                path=document.path,
+                claims=len(document_claims),
+                inconsistent=sum(1 for c in document_claims if c["status"] == "inconsistent"),
+                decision_flips=sum(1 for c in document_claims
+                                   if any(f["check"] == "decision-flip" for f in c["flags"])),
+                errors=severities.get("error", 0),
+                warnings=severities.get("warning", 0),
+                unreadable=not document.readable))
     notes = ["p-curve and the caliper test use every single test result found (bounds "
              "excluded); p-curve assumes independent results, one per study and hypothesis, "
              "which a screen cannot verify."]
@@ -250,6 +279,8 @@ def summarise(store_path: str, settings: Settings | None = None) -> CorpusSummar
         calipers=caliper_tests(p_values),
         settings=key,
         notes=notes,
+        documents_to_look_at=sorted(tallies, key=lambda t: (-t.decision_flips, -t.errors,
+                                                            -t.warnings, t.path)),
     )
 
 
@@ -269,5 +300,5 @@ def _harmonised(claim: dict):
     return harmonise(claim["test"], statistic, df)
 
 
-__all__ = ["CorpusSummary", "Screening", "StoredDocument", "check_to_json", "screen",
+__all__ = ["CorpusSummary", "DocumentTally", "Screening", "StoredDocument", "check_to_json", "screen",
            "stored_documents", "summarise"]
