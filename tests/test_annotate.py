@@ -349,3 +349,14 @@ def test_a_pdf_from_standard_input_has_no_file_to_copy(tmp_path):
     code, _, err = run("check", "-", "--annotate", str(out), stdin=data)
     assert code == 2 and "read from standard input, so there is no file to copy" in err
     assert err.count("\n") == 1 and "Traceback" not in err
+
+
+@needs_fonts
+def test_a_pdf_encrypted_without_a_user_password_is_annotated(tmp_path):
+    # restrictions set with an owner password only: anyone may read it, and so copy it
+    source = _write(tmp_path, "paper.pdf",
+                    manuscript_pdf(PARAGRAPHS[:1], Layout(password="")).data)
+    out = tmp_path / "annotated"
+    code, _, err = run("check", source, "--annotate", str(out))
+    assert code == 1 and "2 flagged results highlighted" in err
+    assert len(_highlights(str(out / "paper.scrutiny.pdf"))) >= 2

@@ -60,6 +60,14 @@ def page_rectangle(box: Box, crop: tuple[float, float, float, float],
     return min(xs), min(ys), max(xs), max(ys)
 
 
+def _visible(page) -> tuple[float, float, float, float]:
+    """The page's crop box (its media box if it has none) as (left, bottom, right, top), as
+    the PDF reader measured from it."""
+    crop = page.cropbox
+    return (min(crop.left, crop.right), min(crop.bottom, crop.top),
+            max(crop.left, crop.right), max(crop.bottom, crop.top))
+
+
 def _is_ours(path: str) -> bool:
     from pypdf import PdfReader
 
@@ -82,7 +90,13 @@ def annotate_pdf(document: DocumentResult, target: str) -> tuple[int, int]:
         raise AnnotationError(target, "exists and was not written by scrutiny; move it or "
                                       "choose another folder")
     try:
-        writer = PdfWriter(clone_from=PdfReader(document.path))
+        reader = PdfReader(document.path)
+        if reader.is_encrypted and not reader.decrypt(""):
+            raise AnnotationError(document.path, "is encrypted with a password; cannot be "
+                                                 "copied")
+        writer = PdfWriter(clone_from=reader)
+    except AnnotationError:
+        raise
     except Exception as exc:
         raise AnnotationError(document.path, f"cannot be copied ({type(exc).__name__}: "
                                              f"{exc})") from None
@@ -107,11 +121,7 @@ def annotate_pdf(document: DocumentResult, target: str) -> tuple[int, int]:
             if not 1 <= box.page <= len(writer.pages):
                 continue
             page = writer.pages[box.page - 1]
-            crop = page.cropbox
-            x0, y0, x1, y1 = page_rectangle(
-                box, (min(crop.left, crop.right), min(crop.bottom, crop.top),
-                      max(crop.left, crop.right), max(crop.bottom, crop.top)),
-                page.rotation % 360)
+            x0, y0, x1, y1 = page_rectangle(box, _visible(page), page.rotation % 360)
             # quadrilateral corners in the order viewers expect: top left, top right,
             # bottom left, bottom right
             quad = ArrayObject(FloatObject(round(v, 2)) for v in (x0, y1, x1, y1, x0, y0, x1, y0))
@@ -124,11 +134,7 @@ def annotate_pdf(document: DocumentResult, target: str) -> tuple[int, int]:
 
     if writer.pages:
         first = writer.pages[0]
-        crop = first.cropbox
-        corner = page_rectangle(Box(1, 8, 8, 26, 26),
-                                (min(crop.left, crop.right), min(crop.bottom, crop.top),
-                                 max(crop.left, crop.right), max(crop.bottom, crop.top)),
-                                first.rotation % 360)
+        corner = page_rectangle(Box(1, 8, 8, 26, 26), _visible(first), first.rotation % 360)
         flags = sum(len(result.flags) for result in document.claims)
         unplaced = (f" {missed} flagged result{'s' if missed != 1 else ''} could not be "
                     f"placed on the page (see the report)." if missed else "")
