@@ -177,3 +177,43 @@ def test_the_interval_contains_the_point_p(case):
     recomputed = result.recomputed
     assert recomputed.p_interval.low <= recomputed.p <= recomputed.p_interval.high
     assert 0.0 <= recomputed.p_interval.low <= recomputed.p_interval.high <= 1.0
+
+
+# -- any text at all -------------------------------------------------------------------------
+
+_FRAGMENTS = ["t(", "F(", "χ²(", "r(", "z = ", ") = ", ", p = ", " p < ", ".0", "−", "±",
+              " M = ", " SD = ", " n = ", "% (", " of ", " 95% CI [", ", ", "] ", " OR = ",
+              " b = ", " SE = ", "ps < ", "ns", "\n\n", "³", "10⁻⁴", "(N = ", "df = ",
+              "one-tailed", "7-point scale", "e-", "…", "\u00ad", "\ufb01"]
+
+
+@st.composite
+def manuscript_noise(draw) -> str:
+    """Text made of the pieces results are printed with, digits and anything else, in any
+    order: what a broken PDF text layer or a table flattened into prose may look like."""
+    pieces = draw(st.lists(st.one_of(st.sampled_from(_FRAGMENTS),
+                                     st.integers(0, 9999).map(str),
+                                     st.decimals(0, 100, places=3).map(str),
+                                     st.text(max_size=6)), max_size=40))
+    return "".join(pieces)
+
+
+@settings(max_examples=300, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(manuscript_noise())
+def test_any_text_is_checked_without_an_exception(text):
+    # every claim found must point at its own text in the input, and every report format
+    # must render the result
+    import io
+
+    from scrutiny.model import Run, Settings
+    from scrutiny.report import FORMATS, render
+
+    result = check_text(text)
+    for claim in result.claims:
+        location = claim.claim.location
+        assert 0 <= location.start < location.end <= len(text)
+        assert text[location.start:location.end] == claim.claim.text
+        assert claim.status.value in ("consistent", "inconsistent", "unchecked")
+    run = Run(settings=Settings(), documents=(result,), skipped=())
+    for format in FORMATS:
+        render(run, format, io.StringIO(), width=100)
