@@ -173,6 +173,11 @@ class OffsetMap:
         self._segment_starts = [segment.start for segment in self._segments]
         self._geometry = geometry
 
+    @property
+    def segments(self) -> tuple[Segment, ...]:
+        """Where each stretch of the text comes from, in order of their starts."""
+        return self._segments
+
     def to_original(self, normalised_offset: int) -> int:
         if len(self._norm_points) == 1:  # normalisation changed no lengths: offsets agree
             return normalised_offset

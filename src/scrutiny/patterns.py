@@ -24,7 +24,9 @@ else:  # pragma: no cover - exercised on Python 3.10 only
 KINDS = ("statistic", "not-a-result", "other-test", "p-value", "not-significant", "df",
          "sample-size", "group-size", "printed-effect", "tails-one", "tails-two", "design-within",
          "design-between", "descriptive", "proportion", "interval-estimate", "coefficient",
-         "integer-cue", "item-count", "se-cue", "weighted-cue", "total-sample")
+         "integer-cue", "item-count", "se-cue", "weighted-cue", "total-sample", "table-column")
+#: what a table column may hold (patterns of kind "table-column")
+TABLE_ROLES = ("statistic", "df", "p", "n", "coefficient", "se")
 
 _FRAGMENT = regex.compile(r"<<([a-z_]+)>>")
 _FLAGS = regex.VERBOSE | regex.VERSION0
@@ -48,6 +50,8 @@ class Pattern:
     must_not_match: tuple[str, ...] = ()
     #: printed-effect patterns: which effect size they read (d, g, eta2, eta2_partial, ...)
     measure: str | None = None
+    #: table-column patterns: what the column holds (one of TABLE_ROLES)
+    role: str | None = None
     #: words of which every match contains at least one; when given, a whole-text search looks
     #: only near them (a test checks the examples against them). Lower-case ASCII keywords are
     #: found in any case; others ("SE", "±") exactly as written
@@ -158,6 +162,12 @@ def load_library(folder: str | None = None) -> Library:
                 raise PatternError(f"{where}: a statistic pattern needs a test family")
             if kind == "printed-effect" and not entry.get("measure"):
                 raise PatternError(f"{where}: a printed-effect pattern needs a measure")
+            if kind == "table-column" and entry.get("role") not in TABLE_ROLES:
+                raise PatternError(f"{where}: a table-column pattern needs a role, one of "
+                                   f"{', '.join(TABLE_ROLES)}")
+            if kind == "table-column" and entry.get("role") == "statistic" \
+                    and not entry.get("test"):
+                raise PatternError(f"{where}: a statistic column needs a test family")
             source = _expand(entry["regex"], fragments, where)
             try:
                 compiled = regex.compile(source, _FLAGS)
@@ -175,6 +185,7 @@ def load_library(folder: str | None = None) -> Library:
                 must_not_match=tuple(entry.get("must_not_match", ())),
                 keywords=tuple(_keyword(k, where) for k in entry.get("keywords", ())),
                 measure=entry.get("measure"),
+                role=entry.get("role"),
             ))
     missing = [kind for kind in KINDS if not any(p.kind == kind for p in patterns)]
     if missing:

@@ -93,7 +93,14 @@ def _recompute_test(claim: Claim, settings: Settings) -> Recomputed:
     needed = NEEDS_DF[claim.test]
     if len(df) < needed:
         what = "degrees of freedom or N" if claim.test == "r" else "degrees of freedom"
+        # without df the p cannot be recomputed, but a coefficient and its SE still give the
+        # statistic ("b = 0.52, SE = 0.14, t = 2.10"): keep what that check needs
+        coefficient = coefficient_statistic(claim) if claim.test == "t" else None
+        values = None
+        if coefficient is not None and claim.statistic_comparator == "=":
+            values = statistic_interval(claim.statistic, "=", *_RANGE[claim.test])
         return Recomputed(reported_p_interval=reported, df=df, n=n,
+                          statistic_interval=values, coefficient_statistic=coefficient,
                           reason=f"no {what} printed")
     if any(d <= 0 for d in df):
         return Recomputed(reported_p_interval=reported, df=df, n=n,

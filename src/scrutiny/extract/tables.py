@@ -1,0 +1,231 @@
+"""Results printed across the cells of a table: one claim per row of a table of results.
+
+Word, HTML and JATS readers keep a table's cells apart and label each ("table 2, row 3,
+column 1"). A table of results prints across a row what the running text prints in one
+sentence:
+
+    | Measure  | t    | df | p    |
+    | Boldness | 2.45 | 28 | .021 |      reads as  t(28) = 2.45, p = .021
+
+A table counts as one of results when a header row (one of its first three rows) names a test
+statistic column (t, F, chi-square, z: the patterns of kind "table-column" in
+`patterns/tables.toml`) and a p-value column. Each later row whose statistic cell holds a
+number becomes a claim, with its df from the header ("t(58)", "F(2, 87)") or from df columns,
+its p from the p column ("< .001", ".021**"), its N from an N column, and a coefficient and
+its standard error when the table has those columns. A row already read from the running text
+(a cell that prints a whole result) is not read twice, and a row whose p cell is empty or not a
+p-value is left out rather than reported without one. PDF tables have no cells to read and are
+not read this way.
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass
+
+import regex
+
+from ..model import Claim, Document, Estimate, PValue
+from ..patterns import Library
+from .context import WHITESPACE
+
+_CELL = re.compile(r"table (\d+), row (\d+), column (\d+)")
+#: how many rows from the top of a table its header may be
+_HEADER_ROWS = 3
+#: a number as a cell prints it, with the marks tables put after it ("2.45**", "3.1a")
+_NUMBER = regex.compile(r"\s*(?P<value>-?\s?\d*[.,]?\d+)\s*(?:[*†‡§]+|[a-e])?\s*")
+_P = regex.compile(r"\s*(?:(?P<comparator><=|>=|[<>≤≥=])\s*)?"
+                   r"(?P<value>\d*\.\d+|[01]|\d(?:\.\d+)?\s?[eE]\s?-\s?\d+)\s*(?:[*†‡§]+|[a-e])?\s*")
+_NOT_SIGNIFICANT = regex.compile(r"\s*(?:ns|n\.s\.|NS)\s*")
+_DF = regex.compile(r"\s*\(?\s*(?P<df1>\d+(?:\.\d+)?)\s*(?:[,;/]\s*(?P<df2>\d+(?:\.\d+)?))?"
+                    r"\s*\)?\s*")
+_COMPARATORS = {"<=": "<=", ">=": ">=", "≤": "<=", "≥": ">=", "<": "<", ">": ">", "=": "="}
+
+
+@dataclass(frozen=True)
+class _Cell:
+    row: int
+    column: int
+    start: int       # in the Document's text, trimmed of white space
+    end: int
+    printed: str     # as printed
+    plain: str       # normalised, for reading
+
+
+@dataclass(frozen=True)
+class _Column:
+    role: str
+    test: str | None = None
+    header_df: tuple[str, ...] = ()
+    printed: str = ""
+
+
+def find_table_results(document: Document, library: Library,
+                       claims: list[Claim]) -> list[Claim]:
+    """Claims read from the rows of the document's tables of results; `claims` are those
+    already found in the running text (their cells are not read again)."""
+    tables = _tables(document)
+    if not tables:
+        return []
+    taken = [(c.location.start, c.location.end) for c in claims]
+    found: list[Claim] = []
+    for cells in tables.values():
+        rows: dict[int, dict[int, _Cell]] = {}
+        for cell in cells:
+            rows.setdefault(cell.row, {})[cell.column] = cell
+        header_row, columns = _header(rows, library)
+        if columns is None:
+            continue
+        for row_number in sorted(rows):
+            if row_number <= header_row:
+                continue
+            claim = _row_claim(document, rows[row_number], columns, rows[header_row])
+            if claim is not None and not any(claim.location.start < end and
+                                             start < claim.location.end
+                                             for start, end in taken):
+                found.append(claim)
+    return found
+
+
+def _tables(document: Document) -> dict[int, list[_Cell]]:
+    """The cells of each table, by table number, from the reader's segments."""
+    segments = document.offset_map.segments
+    spans: dict[tuple[int, int, int], list[int]] = {}
+    for index, segment in enumerate(segments):
+        if not segment.cell:
+            continue
+        label = _CELL.fullmatch(segment.cell)
+        if label is None:
+            continue
+        end = segments[index + 1].start if index + 1 < len(segments) else len(document.text)
+        key = (int(label.group(1)), int(label.group(2)), int(label.group(3)))
+        span = spans.setdefault(key, [segment.start, end])
+        span[0], span[1] = min(span[0], segment.start), max(span[1], end)
+    tables: dict[int, list[_Cell]] = {}
+    for (table, row, column), (start, end) in spans.items():
+        printed = document.text[start:end]
+        stripped = printed.strip()
+        if not stripped:
+            continue
+        start += len(printed) - len(printed.lstrip())
+        end = start + len(stripped)
+        plain = document.normalised[document.normalised_offset(start):
+                                    document.normalised_offset(end)]
+        tables.setdefault(table, []).append(_Cell(row, column, start, end, stripped, plain))
+    return tables
+
+
+def _header(rows: dict[int, dict[int, _Cell]],
+            library: Library) -> tuple[int, dict[int, _Column] | None]:
+    """The header row of a table of results and what each of its columns holds."""
+    for row_number in sorted(rows)[:_HEADER_ROWS]:
+        columns: dict[int, _Column] = {}
+        for column, cell in rows[row_number].items():
+            for pattern in library.of_kind("table-column"):
+                match = pattern.compiled.fullmatch(cell.plain)
+                if match is not None:
+                    header_df = tuple(match.group(name) for name in ("df1", "df2")
+                                      if name in match.re.groupindex and match.group(name))
+                    columns[column] = _Column(pattern.role or "", pattern.test, header_df,
+                                              cell.printed)
+                    break
+        roles = [column.role for column in columns.values()]
+        if roles.count("statistic") == 1 and roles.count("p") == 1:
+            return row_number, columns
+    return 0, None
+
+
+def _row_claim(document: Document, row: dict[int, _Cell], columns: dict[int, _Column],
+               header: dict[int, _Cell]) -> Claim | None:
+    def cell_of(role: str) -> list[tuple[_Cell, _Column]]:
+        return [(row[index], column) for index, column in sorted(columns.items())
+                if column.role == role and index in row]
+
+    statistic_cells = cell_of("statistic")
+    p_cells = cell_of("p")
+    if not statistic_cells or not p_cells:
+        return None
+    statistic_cell, statistic_column = statistic_cells[0]
+    p_cell = p_cells[0][0]
+    number = _NUMBER.fullmatch(statistic_cell.plain)
+    if number is None:
+        return None
+    p_value = _p_value(p_cell)
+    if p_value is None:
+        return None
+    test = statistic_column.test or ""
+    used = [statistic_cell, p_cell]
+    df = statistic_column.header_df
+    if not df:
+        df_cells = cell_of("df")
+        pieces: list[str] = []
+        for cell, _ in df_cells:
+            found = _DF.fullmatch(cell.plain)
+            if found is None:
+                break
+            pieces.extend(_printed_group(cell, found, name) for name in ("df1", "df2")
+                          if found.group(name))
+            used.append(cell)
+        df = tuple(pieces)
+    if test == "F" and len(df) != 2 or test in ("t", "chi2") and len(df) > 1:
+        df = ()  # not the df of this statistic: leave the claim without them
+    n = None
+    for cell, _ in cell_of("n"):
+        if _NUMBER.fullmatch(cell.plain) and test in ("chi2", "z"):
+            n = cell.printed
+            used.append(cell)
+    estimate = None
+    coefficients, errors = cell_of("coefficient"), cell_of("se")
+    if coefficients and errors and test in ("t", "z"):
+        (value_cell, value_column), (se_cell, _) = coefficients[0], errors[0]
+        if _NUMBER.fullmatch(value_cell.plain) and _NUMBER.fullmatch(se_cell.plain):
+            estimate = Estimate(label=value_column.printed.strip("*_ ") or "b",
+                                value=_number_as_printed(value_cell),
+                                se=_number_as_printed(se_cell))
+            used += [value_cell, se_cell]
+    start, end = min(cell.start for cell in used), max(cell.end for cell in used)
+    labelled = "; ".join(
+        f"{WHITESPACE.sub(' ', header[index].printed) if index in header else ''}: "
+        f"{WHITESPACE.sub(' ', cell.printed)}".lstrip(": ")
+        for index, cell in sorted(row.items()))
+    location = document.location(start, end)
+    where = _CELL.fullmatch(location.cell or "")
+    row_name = f"table {where.group(1)}, row {where.group(2)}" if where else "a table row"
+    return Claim(
+        test=test,
+        df=df,
+        statistic=_number_as_printed(statistic_cell),
+        statistic_comparator="=",
+        p=p_value,
+        location=location,
+        text=document.text[start:end],
+        sentence=f"{row_name}: {labelled}",
+        n=n,
+        estimate=estimate,
+        pattern="table-row",
+    )
+
+
+def _p_value(cell: _Cell) -> PValue | None:
+    if _NOT_SIGNIFICANT.fullmatch(cell.plain):
+        return PValue(comparator="ns", reported="")
+    found = _P.fullmatch(cell.plain)
+    if found is None:
+        return None
+    return PValue(comparator=_COMPARATORS.get(found.group("comparator") or "=", "="),
+                  reported=_printed_group(cell, found, "value"))
+
+
+def _number_as_printed(cell: _Cell) -> str:
+    found = _NUMBER.fullmatch(cell.plain)
+    return _printed_group(cell, found, "value") if found else cell.printed
+
+
+def _printed_group(cell: _Cell, match: regex.Match, name: str) -> str:
+    """A group of a match in a cell's normalised text, as printed (the cell's own characters
+    where normalisation kept its length, the normalised ones otherwise)."""
+    value = match.group(name)
+    if len(cell.plain) == len(cell.printed):
+        start, end = match.span(name)
+        return cell.printed[start:end]
+    return value
