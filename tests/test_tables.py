@@ -142,3 +142,13 @@ def test_a_cell_that_prints_a_whole_result_is_read_once():
     assert texts.count("t(28) = 2.45, p = .021") == 1
     assert all(c.claim.pattern != "table-row" or c.claim.statistic != "2.45"
                for c in result.claims)
+
+
+def test_a_table_of_coefficients_without_a_statistic_checks_p_against_b_and_se():
+    # 0.34 / 0.12 = 2.83: p = .005 fits (normal: .0047; t with 10 or more df up to .018);
+    # 0.52 / 0.14 = 3.71: p = .21 does not
+    rows = [["Predictor", "B", "SE", "p"], ["Mass", "0.34", "0.12", ".005"],
+            ["Age", "0.52", "0.14", ".21"]]
+    mass, age = _check(_docx(rows), "coefficients.docx").claims
+    assert (mass.claim.test, mass.claim.estimate.se, mass.flags) == ("estimate", "0.12", ())
+    assert [f.check for f in age.flags] == ["coefficient-mismatch"]

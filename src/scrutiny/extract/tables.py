@@ -130,7 +130,9 @@ def _header(rows: dict[int, dict[int, _Cell]],
                                               cell.printed)
                     break
         roles = [column.role for column in columns.values()]
-        if roles.count("statistic") == 1 and roles.count("p") == 1:
+        if roles.count("p") == 1 and (roles.count("statistic") == 1 or (
+                "statistic" not in roles and roles.count("coefficient") == 1
+                and roles.count("se") == 1)):
             return row_number, columns
     return 0, None
 
@@ -143,8 +145,10 @@ def _row_claim(document: Document, row: dict[int, _Cell], columns: dict[int, _Co
 
     statistic_cells = cell_of("statistic")
     p_cells = cell_of("p")
-    if not statistic_cells or not p_cells:
+    if not p_cells:
         return None
+    if not statistic_cells:
+        return _coefficient_claim(document, row, cell_of, p_cells[0][0], header)
     statistic_cell, statistic_column = statistic_cells[0]
     p_cell = p_cells[0][0]
     number = _NUMBER.fullmatch(statistic_cell.plain)
@@ -183,6 +187,30 @@ def _row_claim(document: Document, row: dict[int, _Cell], columns: dict[int, _Co
                                 value=_number_as_printed(value_cell),
                                 se=_number_as_printed(se_cell))
             used += [value_cell, se_cell]
+    return _claim(document, row, header, used, test=test, df=df,
+                  statistic=_number_as_printed(statistic_cell), p=p_value, n=n,
+                  estimate=estimate)
+
+
+def _coefficient_claim(document: Document, row: dict[int, _Cell], cell_of, p_cell: _Cell,
+                       header: dict[int, _Cell]) -> Claim | None:
+    """A row of a table of coefficients without a test statistic column: b, SE and p."""
+    p_value = _p_value(p_cell)
+    coefficients, errors = cell_of("coefficient"), cell_of("se")
+    if p_value is None or not coefficients or not errors:
+        return None
+    (value_cell, value_column), (se_cell, _) = coefficients[0], errors[0]
+    if not (_NUMBER.fullmatch(value_cell.plain) and _NUMBER.fullmatch(se_cell.plain)):
+        return None
+    estimate = Estimate(label=value_column.printed.strip("*_ ") or "b",
+                        value=_number_as_printed(value_cell), se=_number_as_printed(se_cell))
+    return _claim(document, row, header, [value_cell, se_cell, p_cell], test="estimate",
+                  df=(), statistic=estimate.value, p=p_value, n=None, estimate=estimate)
+
+
+def _claim(document: Document, row: dict[int, _Cell], header: dict[int, _Cell],
+           used: list[_Cell], **parts) -> Claim:
+    """The claim of a row: its text runs from the first cell read to the last."""
     start, end = min(cell.start for cell in used), max(cell.end for cell in used)
     labelled = "; ".join(
         f"{WHITESPACE.sub(' ', header[index].printed) if index in header else ''}: "
@@ -191,19 +219,8 @@ def _row_claim(document: Document, row: dict[int, _Cell], columns: dict[int, _Co
     location = document.location(start, end)
     where = _CELL.fullmatch(location.cell or "")
     row_name = f"table {where.group(1)}, row {where.group(2)}" if where else "a table row"
-    return Claim(
-        test=test,
-        df=df,
-        statistic=_number_as_printed(statistic_cell),
-        statistic_comparator="=",
-        p=p_value,
-        location=location,
-        text=document.text[start:end],
-        sentence=f"{row_name}: {labelled}",
-        n=n,
-        estimate=estimate,
-        pattern="table-row",
-    )
+    return Claim(statistic_comparator="=", location=location, text=document.text[start:end],
+                 sentence=f"{row_name}: {labelled}", pattern="table-row", **parts)
 
 
 def _p_value(cell: _Cell) -> PValue | None:
