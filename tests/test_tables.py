@@ -152,3 +152,20 @@ def test_a_table_of_coefficients_without_a_statistic_checks_p_against_b_and_se()
     mass, age = _check(_docx(rows), "coefficients.docx").claims
     assert (mass.claim.test, mass.claim.estimate.se, mass.flags) == ("estimate", "0.12", ())
     assert [f.check for f in age.flags] == ["coefficient-mismatch"]
+
+
+def test_tables_of_ratios_with_confidence_intervals():
+    # Altman & Bland (2011): p from the interval on the log scale. OR 1.84 (1.06-3.19):
+    # SE = (ln 3.19 - ln 1.06) / 3.92 = 0.281, z = ln 1.84 / 0.281 = 2.17, p = .030 (not .20);
+    # OR 1.52 (1.10-2.10): z = 2.59, p = .0097 (fits .011 within the rounding of the limits)
+    together = [["Exposure", "OR (95% CI)", "p"], ["Smoking", "1.52 (1.10–2.10)", ".011"],
+                ["Flooding", "1.84 (1.06-3.19)", ".20"]]
+    apart = [["Exposure", "aHR", "95% CI", "P"], ["Smoking", "0.71", "0.55 to 0.92", ".009"]]
+    result = _check(_docx(together, apart), "ratios.docx")
+    assert [(c.claim.estimate.label, c.claim.estimate.value, c.claim.estimate.low,
+             c.claim.estimate.high, c.claim.estimate.ratio, sorted(f.check for f in c.flags))
+            for c in result.claims] == [
+        ("OR", "1.52", "1.10", "2.10", True, []),
+        ("OR", "1.84", "1.06", "3.19", True, ["ci-p-mismatch"]),
+        ("aHR", "0.71", "0.55", "0.92", True, [])]
+    assert all(c.claim.estimate.level == "95" for c in result.claims)

@@ -26,7 +26,8 @@ KINDS = ("statistic", "not-a-result", "other-test", "p-value", "not-significant"
          "design-between", "descriptive", "proportion", "interval-estimate", "coefficient",
          "integer-cue", "item-count", "se-cue", "weighted-cue", "total-sample", "table-column")
 #: what a table column may hold (patterns of kind "table-column")
-TABLE_ROLES = ("statistic", "df", "p", "n", "coefficient", "se")
+TABLE_ROLES = ("statistic", "df", "p", "n", "coefficient", "se", "estimate", "interval",
+               "estimate-interval")
 
 _FRAGMENT = regex.compile(r"<<([a-z_]+)>>")
 _FLAGS = regex.VERBOSE | regex.VERSION0

@@ -48,7 +48,7 @@ from .statistics import comparator
 _P_WINDOW = 150
 #: how far before a t or z its coefficient and SE may end ("b = 0.33, SE = 0.13, t(...)")
 _COEFFICIENT_GAP = 40
-_RATIO_LABELS = frozenset({"OR", "aOR", "HR", "aHR", "RR", "aRR", "IRR", "aIRR", "PR", "aPR"})
+RATIO_LABELS = frozenset({"OR", "aOR", "HR", "aHR", "RR", "aRR", "IRR", "aIRR", "PR", "aPR"})
 #: what may stand between a coefficient (or an interval) and the test of it
 _SEPARATORS = regex.compile(r"[\s,;()\[\]]*(?:(?:Wald|Wald's|Wald’s)\s*)?")
 #: ... and, between a coefficient and its t or z, its standardised version: "B = 0.34,
@@ -353,7 +353,7 @@ def _estimate(reader: _Reader, match: regex.Match, kind: str) -> Estimate:
         high=reader.printed(match, "high") if kind == "interval-estimate" else None,
         level=reader.printed(match, "level") if kind == "interval-estimate" else None,
         se=reader.printed(match, "se") if kind == "coefficient" else None,
-        ratio=label in _RATIO_LABELS,
+        ratio=label in RATIO_LABELS,
     )
 
 

@@ -28,6 +28,7 @@ import regex
 from ..model import Claim, Document, Estimate, PValue
 from ..patterns import Library
 from .context import WHITESPACE
+from .estimates import RATIO_LABELS
 
 _CELL = re.compile(r"table (\d+), row (\d+), column (\d+)")
 #: how many rows from the top of a table its header may be
@@ -39,6 +40,13 @@ _P = regex.compile(r"\s*(?:(?P<comparator><=|>=|[<>≤≥=])\s*)?"
 _NOT_SIGNIFICANT = regex.compile(r"\s*(?:ns|n\.s\.|NS)\s*")
 _DF = regex.compile(r"\s*\(?\s*(?P<df1>\d+(?:\.\d+)?)\s*(?:[,;/]\s*(?P<df2>\d+(?:\.\d+)?))?"
                     r"\s*\)?\s*")
+#: an interval as a cell prints it: "1.10-2.10", "1.10 to 2.10", "[1.10, 2.10]"
+_INTERVAL = regex.compile(r"\s*[(\[]?\s*(?P<low>-?\d*\.?\d+)\s*(?:-|to|,|;|\.\.)\s*"
+                          r"(?P<high>-?\d*\.?\d+)\s*[)\]]?\s*")
+#: an estimate and its interval in one cell: "1.52 (1.10-2.10)"
+_ESTIMATE_INTERVAL = regex.compile(r"\s*(?P<value>-?\d*\.?\d+)\s*[*†‡§]*\s*[(\[]\s*"
+                                   r"(?P<low>-?\d*\.?\d+)\s*(?:-|to|,|;|\.\.)\s*"
+                                   r"(?P<high>-?\d*\.?\d+)\s*[)\]]\s*[*†‡§]*\s*")
 _COMPARATORS = {"<=": "<=", ">=": ">=", "≤": "<=", "≥": ">=", "<": "<", ">": ">", "=": "="}
 
 
@@ -58,6 +66,8 @@ class _Column:
     test: str | None = None
     header_df: tuple[str, ...] = ()
     printed: str = ""
+    label: str | None = None   # an estimate's symbol in the header ("OR (95% CI)")
+    level: str | None = None   # the confidence level in the header
 
 
 def find_table_results(document: Document, library: Library,
@@ -124,15 +134,18 @@ def _header(rows: dict[int, dict[int, _Cell]],
             for pattern in library.of_kind("table-column"):
                 match = pattern.compiled.fullmatch(cell.plain)
                 if match is not None:
-                    header_df = tuple(match.group(name) for name in ("df1", "df2")
-                                      if name in match.re.groupindex and match.group(name))
+                    named = {name: match.group(name) for name in match.re.groupindex}
+                    header_df = tuple(named[name] for name in ("df1", "df2") if named.get(name))
                     columns[column] = _Column(pattern.role or "", pattern.test, header_df,
-                                              cell.printed)
+                                              cell.printed, named.get("label"),
+                                              named.get("level"))
                     break
         roles = [column.role for column in columns.values()]
         if roles.count("p") == 1 and (roles.count("statistic") == 1 or (
-                "statistic" not in roles and roles.count("coefficient") == 1
-                and roles.count("se") == 1)):
+                "statistic" not in roles and (
+                    roles.count("coefficient") == 1 and roles.count("se") == 1
+                    or roles.count("estimate-interval") == 1
+                    or roles.count("estimate") == 1 and roles.count("interval") == 1))):
             return row_number, columns
     return 0, None
 
@@ -148,6 +161,8 @@ def _row_claim(document: Document, row: dict[int, _Cell], columns: dict[int, _Co
     if not p_cells:
         return None
     if not statistic_cells:
+        if cell_of("estimate-interval") or cell_of("estimate"):
+            return _interval_claim(document, row, cell_of, p_cells[0][0], header)
         return _coefficient_claim(document, row, cell_of, p_cells[0][0], header)
     statistic_cell, statistic_column = statistic_cells[0]
     p_cell = p_cells[0][0]
@@ -206,6 +221,40 @@ def _coefficient_claim(document: Document, row: dict[int, _Cell], cell_of, p_cel
                         value=_number_as_printed(value_cell), se=_number_as_printed(se_cell))
     return _claim(document, row, header, [value_cell, se_cell, p_cell], test="estimate",
                   df=(), statistic=estimate.value, p=p_value, n=None, estimate=estimate)
+
+
+def _interval_claim(document: Document, row: dict[int, _Cell], cell_of, p_cell: _Cell,
+                    header: dict[int, _Cell]) -> Claim | None:
+    """A row of a table of estimates with confidence intervals: "OR (95% CI)" and p columns
+    ("1.52 (1.10-2.10)", ".011"), or "OR", "95% CI" and p columns."""
+    p_value = _p_value(p_cell)
+    if p_value is None:
+        return None
+    together = cell_of("estimate-interval")
+    if together:
+        cell, column = together[0]
+        found = _ESTIMATE_INTERVAL.fullmatch(cell.plain)
+        if found is None:
+            return None
+        value, low, high = (_printed_group(cell, found, name) for name in ("value", "low", "high"))
+        used, label, level = [cell, p_cell], column.label, column.level
+    else:
+        (cell, column), intervals = cell_of("estimate")[0], cell_of("interval")
+        number = _NUMBER.fullmatch(cell.plain)
+        if number is None or not intervals:
+            return None
+        interval_cell, interval_column = intervals[0]
+        found = _INTERVAL.fullmatch(interval_cell.plain)
+        if found is None:
+            return None
+        value = _printed_group(cell, number, "value")
+        low, high = (_printed_group(interval_cell, found, name) for name in ("low", "high"))
+        used, label, level = [cell, interval_cell, p_cell], column.label, interval_column.level
+    label = label or "estimate"
+    estimate = Estimate(label=label, value=value, low=low, high=high, level=level,
+                        ratio=label in RATIO_LABELS)
+    return _claim(document, row, header, used, test="estimate", df=(), statistic=value,
+                  p=p_value, n=None, estimate=estimate)
 
 
 def _claim(document: Document, row: dict[int, _Cell], header: dict[int, _Cell],
