@@ -157,7 +157,7 @@ def test_a_table_of_coefficients_without_a_statistic_checks_p_against_b_and_se()
 def test_tables_of_ratios_with_confidence_intervals():
     # Altman & Bland (2011): p from the interval on the log scale. OR 1.84 (1.06-3.19):
     # SE = (ln 3.19 - ln 1.06) / 3.92 = 0.281, z = ln 1.84 / 0.281 = 2.17, p = .030 (not .20);
-    # OR 1.52 (1.10-2.10): z = 2.59, p = .0097 (fits .011 within the rounding of the limits)
+    # OR 1.52 (1.10-2.10): SE = 0.165, z = 2.54, p = .011
     together = [["Exposure", "OR (95% CI)", "p"], ["Smoking", "1.52 (1.10–2.10)", ".011"],
                 ["Flooding", "1.84 (1.06-3.19)", ".20"]]
     apart = [["Exposure", "aHR", "95% CI", "P"], ["Smoking", "0.71", "0.55 to 0.92", ".009"]]
