@@ -23,7 +23,7 @@ except ModuleNotFoundError:  # Python 3.10
 
 SAMPLES = Path(__file__).resolve().parent.parent / "samples"
 EXPECTED = SAMPLES / "expected-flags.toml"
-MANUSCRIPT_SUFFIXES = {".txt", ".md"}
+MANUSCRIPT_SUFFIXES = {".txt", ".md", ".docx"}
 
 #: the checks the samples must exercise between them
 PLANTED_CHECKS = {"p-mismatch", "decision-flip", "undeclared-one-sided", "one-sided",

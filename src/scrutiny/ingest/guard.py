@@ -11,10 +11,12 @@ the claims found) and only the small result crosses back.
 
 from __future__ import annotations
 
-import multiprocessing
 import os
+import pickle
 import resource
+import select
 import signal
+import time
 
 from typing import Callable, TypeVar
 
@@ -36,6 +38,19 @@ def _virtual_memory_bytes() -> int:
     except OSError:
         pass
     return 0
+
+
+class _Pipe:
+    """The child's end of the pipe: what it sends is pickled, one object."""
+
+    def __init__(self, descriptor: int) -> None:
+        self._stream = os.fdopen(descriptor, "wb")
+
+    def send(self, outcome: tuple[str, object]) -> None:
+        pickle.dump(outcome, self._stream, protocol=pickle.HIGHEST_PROTOCOL)
+
+    def close(self) -> None:
+        self._stream.close()
 
 
 def _child(work: Callable[[], object], memory_limit: int,
@@ -63,32 +78,56 @@ def run_guarded(path: str, work: Callable[[], Result],
                 time_limit: float = TIME_LIMIT_SECONDS,
                 memory_limit: int = MEMORY_LIMIT_BYTES) -> Result:
     """`work()` (the work on the file `path`) in a child process; `InputError` naming `path`
-    when it fails, overruns its time or memory, or the child dies."""
+    when it fails, overruns its time or memory, or the child dies.
+
+    The child is a plain fork, not a `multiprocessing` process, so that the guard also works
+    inside the daemonic worker processes of a process pool or a Dask cluster, which may not
+    start `multiprocessing` children of their own."""
     if not hasattr(os, "fork"):  # no fork (Windows): work in this process, without ceilings
         return work()
-    context = multiprocessing.get_context("fork")
-    receiver, sender = context.Pipe(duplex=False)
-    child = context.Process(target=_child, args=(work, memory_limit, sender), daemon=True)
-    child.start()
-    sender.close()
-    try:
-        if not receiver.poll(time_limit):
-            raise InputError(path, f"took longer than {time_limit:g} s to read (the time "
-                                   "ceiling per file); skipped")
+    reader, writer = os.pipe()
+    pid = os.fork()
+    if pid == 0:  # pragma: no cover - the child
+        code = 0
         try:
-            kind, payload = receiver.recv()
-        except (EOFError, OSError):
-            child.join(5)
-            code = child.exitcode
-            how = (f"signal {signal.Signals(-code).name}" if code is not None and code < 0
-                   else f"exit code {code}")
-            raise InputError(path, f"the reader stopped without an answer ({how}); the file "
-                                   "may be damaged") from None
+            os.close(reader)
+            _child(work, memory_limit, _Pipe(writer))
+        except BaseException:
+            code = 1
+        finally:
+            os._exit(code)  # never return into the parent's code (no atexit, no pytest)
+    os.close(writer)
+    received = bytearray()
+    timed_out = False
+    try:
+        deadline = time.monotonic() + time_limit
+        while True:
+            remaining = deadline - time.monotonic()
+            if remaining <= 0:
+                timed_out = True
+                break
+            ready, _, _ = select.select([reader], [], [], remaining)
+            if not ready:
+                continue
+            chunk = os.read(reader, 1 << 20)
+            if not chunk:
+                break
+            received += chunk
     finally:
-        receiver.close()
-        if child.is_alive():
-            child.kill()
-        child.join(5)
+        os.close(reader)
+        if timed_out:
+            os.kill(pid, signal.SIGKILL)
+        _, status = os.waitpid(pid, 0)
+    if timed_out:
+        raise InputError(path, f"took longer than {time_limit:g} s to read (the time ceiling "
+                               "per file); skipped")
+    try:
+        kind, payload = pickle.loads(bytes(received))
+    except Exception:
+        how = (f"signal {signal.Signals(os.WTERMSIG(status)).name}" if os.WIFSIGNALED(status)
+               else f"exit code {os.WEXITSTATUS(status)}")
+        raise InputError(path, f"the reader stopped without an answer ({how}); the file may "
+                               "be damaged") from None
     if kind == "error":
         raise InputError(path, payload)
     return payload
