@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import functools
 import sys
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from pathlib import Path
 
 import regex
@@ -68,6 +68,8 @@ class Library:
     scanners: dict[str, regex.Pattern]
     #: per kind, the number of the group that wraps each pattern's branch in the scanner
     branch_groups: dict[str, tuple[int, ...]]
+    #: each pattern by the id of its own compiled regex
+    by_regex: dict[int, Pattern] = field(default_factory=dict)
 
     def of_kind(self, kind: str) -> tuple[Pattern, ...]:
         return self.by_kind[kind]
@@ -78,9 +80,9 @@ class Library:
     def matched_pattern(self, kind: str, match: regex.Match) -> Pattern:
         """Which pattern of `kind` produced a match of `scanner(kind)` (or of one pattern's own
         regex, as `find_all` returns them)."""
-        for pattern in self.by_kind[kind]:
-            if match.re is pattern.compiled:
-                return pattern
+        own = self.by_regex.get(id(match.re))
+        if own is not None and own.kind == kind:
+            return own
         groups = match.groups()
         for pattern, group in zip(self.by_kind[kind], self.branch_groups[kind]):
             if groups[group - 1] is not None:
@@ -196,4 +198,5 @@ def load_library(folder: str | None = None) -> Library:
     branch_groups = {kind: tuple(scanner.groupindex[f"_{i}"] for i in range(len(by_kind[kind])))
                      for kind, scanner in scanners.items()}
     return Library(patterns=tuple(patterns), by_kind=by_kind, scanners=scanners,
-                   branch_groups=branch_groups)
+                   branch_groups=branch_groups,
+                   by_regex={id(pattern.compiled): pattern for pattern in patterns})
