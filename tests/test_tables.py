@@ -169,3 +169,20 @@ def test_tables_of_ratios_with_confidence_intervals():
         ("OR", "1.84", "1.06", "3.19", True, ["ci-p-mismatch"]),
         ("aHR", "0.71", "0.55", "0.92", True, [])]
     assert all(c.claim.estimate.level == "95" for c in result.claims)
+
+
+def test_a_latex_tabular_is_read_like_a_word_table(tmp_path):
+    source = tmp_path / "paper.tex"
+    source.write_text(
+        "\\documentclass{article}\n\\begin{document}\nThe tests are in Table 1.\n"
+        "\\begin{table}\n\\begin{tabular}{lccc}\n\\hline\n"
+        "Measure & $t$ & $df$ & $p$ \\\\\n\\hline\n"
+        "Boldness & 2.45 & 28 & .021 \\\\\n"
+        "Range & 2.20 & 28 & .01$^{*}$ \\\\\n\\hline\n"
+        "\\end{tabular}\n\\end{table}\n\\end{document}\n", encoding="utf-8")
+    result = scrutiny.check_file(str(source))
+    assert _summary(result) == [("t", ("28",), "2.45", ("=", ".021"), []),
+                                ("t", ("28",), "2.20", ("=", ".01"), ["p-mismatch"])]
+    location = result.claims[1].claim.location
+    assert (location.file, location.line, location.cell) == (
+        "paper.tex", 10, "table 1, row 3, column 2")

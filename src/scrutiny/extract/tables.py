@@ -1,6 +1,6 @@
 """Results printed across the cells of a table: one claim per row of a table of results.
 
-Word, HTML and JATS readers keep a table's cells apart and label each ("table 2, row 3,
+Word, HTML, JATS and LaTeX readers keep a table's cells apart and label each ("table 2, row 3,
 column 1"). A table of results prints across a row what the running text prints in one
 sentence:
 

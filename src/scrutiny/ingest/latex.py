@@ -299,6 +299,14 @@ class _Output:
         self.tail = "\n\n"
         self.suppressed = False
         self.captures: list[list[str]] = []
+        #: the table cell being written ("table 2, row 3, column 1"), else None
+        self.cell: str | None = None
+
+    def enter_cell(self, label: str | None) -> None:
+        """What is written next belongs to this table cell (None: to no cell)."""
+        if label != self.cell:
+            self.cell = label
+            self.new_segment = True
 
     def last_character(self) -> str:
         if self.captures:
@@ -317,7 +325,8 @@ class _Output:
             return
         if not self.segments or (not synthetic and (self.new_segment or file != self.file
                                                     or line != self.line)):
-            self.segments.append(Segment(self.length, line, file=file, section=self.section))
+            self.segments.append(Segment(self.length, line, file=file, section=self.section,
+                                         cell=self.cell))
             self.file, self.line, self.new_segment = file, line, False
         self.pieces.append(text)
         self.length += len(text)
@@ -370,6 +379,9 @@ class _Converter:
         self.math_opened: tuple[str, int, str] = ("", 0, "")  # what, line, file
         self.groups: list[object] = []      # the mode to restore at each "}"
         self.environments: list[str] = []
+        #: the tables being read, innermost last: [table number, row, column]
+        self.tabulars: list[list[int]] = []
+        self.tables_read = 0
         self.macros: dict[str, _Macro] = {}
         self.notes: list[str] = []
         self.files_read = 0
@@ -644,6 +656,8 @@ class _Converter:
                 self._dollar(line, file)
             elif kind in ("&", "~"):
                 output.space(line, file)
+                if kind == "&" and self.tabulars and self.math is None:
+                    self._next_cell(columns=1)
             elif kind in ("^", "_"):
                 self._script(kind, line, file)
             elif kind == "emit":
@@ -828,6 +842,17 @@ class _Converter:
         self._read_star()
         self._read_delimited("[", "]")
         self.output.space(line, file)
+        if self.tabulars and self.math is None:
+            self._next_cell(rows=1)
+
+    def _next_cell(self, rows: int = 0, columns: int = 0) -> None:
+        """Move to the next cell of the innermost table: a column on (&) or a row down (\\\\)."""
+        table = self.tabulars[-1]
+        if rows:
+            table[1], table[2] = table[1] + rows, 1
+        else:
+            table[2] += columns
+        self.output.enter_cell(f"table {table[0]}, row {table[1]}, column {table[2]}")
 
     def _par(self, name: str, line: int, file: str) -> None:
         self.output.paragraph_break(line, file)
@@ -1012,6 +1037,12 @@ class _Converter:
         self._skip_arguments(tables.ENVIRONMENT_ARGUMENTS.get(environment, ""), line, file,
                              environment)
         self.environments.append(environment)
+        if environment in tables.TABULAR and self.math is None:
+            self.tables_read += 1
+            self.tabulars.append([self.tables_read, 1, 1])
+            output.paragraph_break(line, file)
+            output.enter_cell(f"table {self.tables_read}, row 1, column 1")
+            return
         if environment in tables.DISPLAY_MATH:
             if self.math is None:
                 self.math = ("environment", environment)
@@ -1032,6 +1063,11 @@ class _Converter:
         if environment in self.environments:
             while self.environments and self.environments.pop() != environment:
                 pass
+        if environment in tables.TABULAR and self.tabulars and self.math is None:
+            self.tabulars.pop()
+            table = self.tabulars[-1] if self.tabulars else None
+            self.output.enter_cell(f"table {table[0]}, row {table[1]}, column {table[2]}"
+                                   if table else None)
         if self.math == ("environment", environment):
             self.math = None
             if environment != "math":

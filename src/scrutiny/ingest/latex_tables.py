@@ -182,6 +182,9 @@ VERBATIM = frozenset({"verbatim", "verbatim*", "Verbatim", "BVerbatim", "LVerbat
 #: environments whose content is not printed text (or not printed at all)
 SKIPPED = frozenset({"comment", "tikzpicture", "pgfpicture", "filecontents", "filecontents*",
                      "axis", "tikzcd", "forest", "pspicture", "picture", "asy"})
+#: environments that set a table of cells (& between columns, \\ between rows)
+TABULAR = frozenset({"tabular", "tabular*", "tabularx", "tabulary", "xltabular", "longtable",
+                     "longtable*", "supertabular"})
 #: arguments taken by environments (after \begin{name}), per the specification letters
 ENVIRONMENT_ARGUMENTS = {
     "tabular": "om", "tabular*": "mom", "tabularx": "mom", "tabulary": "mom",
