@@ -186,3 +186,12 @@ def test_a_latex_tabular_is_read_like_a_word_table(tmp_path):
     location = result.claims[1].claim.location
     assert (location.file, location.line, location.cell) == (
         "paper.tex", 10, "table 1, row 3, column 2")
+
+
+def test_a_table_of_correlations_with_n():
+    # r = .32 with n = 50 (df 48): t = .32 * sqrt(48 / (1 - .1024)) = 2.34, p = .024
+    rows = [["Pair", "r", "n", "p"], ["Mass and depth", ".32", "50", ".024"],
+            ["Mass and speed", ".12", "50", ".03"]]   # r = .12: p = .41, not .03
+    mass_depth, mass_speed = _check(_docx(rows), "r.docx").claims
+    assert (mass_depth.claim.test, mass_depth.claim.n, mass_depth.flags) == ("r", "50", ())
+    assert sorted(f.check for f in mass_speed.flags) == ["decision-flip", "p-mismatch"]

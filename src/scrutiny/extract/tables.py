@@ -8,7 +8,7 @@ sentence:
     | Boldness | 2.45 | 28 | .021 |      reads as  t(28) = 2.45, p = .021
 
 A table counts as one of results when a header row (one of its first three rows) names a test
-statistic column (t, F, chi-square, z: the patterns of kind "table-column" in
+statistic column (t, F, chi-square, r, z: the patterns of kind "table-column" in
 `patterns/tables.toml`) and a p-value column. Each later row whose statistic cell holds a
 number becomes a claim, with its df from the header ("t(58)", "F(2, 87)") or from df columns,
 its p from the p column ("< .001", ".021**"), its N from an N column, and a coefficient and
@@ -186,11 +186,11 @@ def _row_claim(document: Document, row: dict[int, _Cell], columns: dict[int, _Co
                           if found.group(name))
             used.append(cell)
         df = tuple(pieces)
-    if test == "F" and len(df) != 2 or test in ("t", "chi2") and len(df) > 1:
+    if test == "F" and len(df) != 2 or test in ("t", "chi2", "r") and len(df) > 1:
         df = ()  # not the df of this statistic: leave the claim without them
     n = None
     for cell, _ in cell_of("n"):
-        if _NUMBER.fullmatch(cell.plain) and test in ("chi2", "z"):
+        if _NUMBER.fullmatch(cell.plain) and test in ("chi2", "z", "r"):
             n = cell.printed
             used.append(cell)
     estimate = None
