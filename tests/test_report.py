@@ -417,3 +417,13 @@ def test_every_format_renders_every_case_of_the_extraction_tables():
     out = io.StringIO()
     render(run_of_all, "csv", out)
     assert len(_csv_rows(out.getvalue())) == claims
+
+
+def test_html_of_several_documents_links_each_from_a_list(tmp_path):
+    (tmp_path / "a.txt").write_text(MISMATCH, encoding="utf-8")
+    (tmp_path / "b.txt").write_text("Nothing to report here.\n", encoding="utf-8")
+    page = run("check", str(tmp_path), "--format", "html")[1]
+    parsed = _parsed(page)
+    assert "nav" in parsed.tags
+    for index in (1, 2):
+        assert f'<a href="#document-{index}">' in page and f'id="document-{index}"' in page

@@ -64,13 +64,33 @@ def _flags_cell(result: ClaimResult) -> str:
                      f"{escape(flag.check)}</span>" for flag in result.flags)
 
 
-def _document(document: DocumentResult, alpha: float, out: list[str]) -> None:
+def _contents(run: Run, out: list[str]) -> None:
+    """For several documents: a list of them, each with its counts, linked to its section."""
+    if len(run.documents) < 2:
+        return
+    out.append('<nav>\n<h2>Documents</h2>\n<table>\n<thead><tr><th>document</th>'
+               "<th>results</th><th>inconsistent</th><th>flags</th></tr></thead>\n<tbody>")
+    for index, document in enumerate(run.documents, 1):
+        if document.errors:
+            counts = '<td colspan="3" class="unreadable">could not be read</td>'
+        else:
+            inconsistent = sum(1 for r in document.claims if r.status.value == "inconsistent")
+            flags = sum(len(r.flags) for r in document.claims)
+            counts = (f"<td>{len(document.claims)}</td><td>{inconsistent}</td>"
+                      f"<td>{flags}</td>")
+        out.append(f'<tr><td><a href="#document-{index}">{escape(document.path)}</a></td>'
+                   f"{counts}</tr>")
+    out.append("</tbody>\n</table>\n</nav>")
+
+
+def _document(document: DocumentResult, alpha: float, out: list[str],
+              index: int = 1) -> None:
     about = document.format or "unknown format"
     if document.encoding and document.encoding != "utf-8":
         about += f", {document.encoding}"
     if document.pages:
         about += f", {document.pages} page{'s' if document.pages != 1 else ''}"
-    out.append(f"<section>\n<h2>{escape(document.path)} "
+    out.append(f'<section id="document-{index}">\n<h2>{escape(document.path)} '
                f'<span class="meta">({escape(about)})</span></h2>')
     for error in document.errors:
         out.append(f'<p class="unreadable">Could not be read: {escape(error)}</p>')
@@ -139,8 +159,9 @@ def render_html(run: Run, stream: TextIO) -> None:
         f"{escape(Summary.of(run).line())}</p>",
         f'<p class="caution">{escape(CAUTION)}</p>',
     ]
-    for document in run.documents:
-        _document(document, settings.alpha, out)
+    _contents(run, out)
+    for index, document in enumerate(run.documents, 1):
+        _document(document, settings.alpha, out, index)
     if run.skipped:
         out.append("<section>\n<h2>Files not read</h2>\n<ul>")
         out.extend(f"<li>{escape(skipped.path)}: {escape(skipped.reason)}</li>"
