@@ -360,3 +360,33 @@ def test_a_pdf_encrypted_without_a_user_password_is_annotated(tmp_path):
     code, _, err = run("check", source, "--annotate", str(out))
     assert code == 1 and "2 flagged results highlighted" in err
     assert len(_highlights(str(out / "paper.scrutiny.pdf"))) >= 2
+
+
+def test_word_table_rows_are_commented_in_their_own_cell(tmp_path):
+    import docx
+
+    source = tmp_path / "manuscripts" / "tables.docx"
+    source.parent.mkdir()
+    document = docx.Document()
+    # the flagged row's statistic, 2.20, is printed in the text before the table too
+    document.add_paragraph("The burrows were 2.20 m deep on average.")
+    table = document.add_table(rows=3, cols=4)
+    for r, row in enumerate([["Measure", "t", "df", "p"], ["Boldness", "2.45", "28", ".021"],
+                             ["Range", "2.20", "28", ".01"]]):
+        for c, text in enumerate(row):
+            table.cell(r, c).text = text
+    document.save(str(source))
+    out = tmp_path / "annotated"
+    code, _, err = run("check", str(source), "--annotate", str(out))
+    assert code == 1 and "1 flagged result commented" in err
+    copy = out / "tables.scrutiny.docx"
+    comments = {str(c.comment_id): c.text for c in docx.Document(str(copy)).comments}
+    covered = _commented_text(copy)
+    [key] = [key for key in covered if "p-mismatch" in comments[key]]
+    assert covered[key] == "2.20"
+    # ... in the table's cell (row 3, column 2), not in the sentence above it
+    copied = docx.Document(str(copy))
+    start, end = f'commentRangeStart w:id="{key}"', f'commentRangeEnd w:id="{key}"'
+    assert start not in copied.paragraphs[0]._p.xml  # (which holds the summary's comment)
+    cell = copied.tables[0].cell(2, 1)._tc.xml
+    assert start in cell and end in cell

@@ -198,6 +198,44 @@ def _paragraphs(container) -> Iterator:
                     yield from _paragraphs(cell)
 
 
+def _cell_runs(copy, label: str | None, printed: str) -> list | None:
+    """The runs that print `printed` in the table cell the Word reader labelled `label`
+    ("table 2, row 3, column 1": tables numbered in document order, nested ones where they
+    stand; columns counted on the grid, as the reader counts them)."""
+    import re
+
+    from docx.oxml.ns import qn
+    from docx.text.paragraph import Paragraph
+
+    where = re.fullmatch(r"table (\d+), row (\d+), column (\d+)", label or "")
+    if where is None:
+        return None
+    number, row_number, column_number = (int(group) for group in where.groups())
+    fallback = "{http://schemas.openxmlformats.org/markup-compatibility/2006}Fallback"
+    tables = [table for table in copy.element.body.iter(qn("w:tbl"))
+              if not any(ancestor.tag == fallback for ancestor in table.iterancestors())]
+    if number > len(tables):
+        return None
+    rows = [child for child in tables[number - 1] if child.tag == qn("w:tr")]
+    if row_number > len(rows):
+        return None
+    row = rows[row_number - 1]
+    before = row.find(f"{qn('w:trPr')}/{qn('w:gridBefore')}")
+    column = 1 + (int(before.get(qn("w:val"), "0")) if before is not None else 0)
+    for cell in (child for child in row if child.tag == qn("w:tc")):
+        span = cell.find(f"{qn('w:tcPr')}/{qn('w:gridSpan')}")
+        if column == column_number:
+            for element in (child for child in cell if child.tag == qn("w:p")):
+                paragraph = Paragraph(element, None)
+                text = "".join(run.text for run in paragraph.runs)
+                at = text.find(printed)
+                if at >= 0:
+                    return _isolate(paragraph, at, at + len(printed))
+            return None
+        column += int(span.get(qn("w:val"), "1")) if span is not None else 1
+    return None
+
+
 def _isolate(paragraph, start: int, end: int) -> list | None:
     """The runs that hold exactly paragraph text [start, end), splitting a run of plain text
     at either end; None where the paragraph's runs do not spell its text one to one (fields,
@@ -264,6 +302,18 @@ def annotate_docx(document: DocumentResult, target: str) -> tuple[int, int]:
         if not result.flags:
             continue
         printed = result.claim.text
+        if result.claim.pattern == "table-row":
+            # a row of a table, printed across cells: the comment goes on the first cell read
+            runs = _cell_runs(copy, result.claim.location.cell,
+                              next(line for line in printed.split("\n") if line.strip()).strip())
+            if runs is None:
+                missed += 1
+                continue
+            messages = "\n\n".join(f"{flag.check} ({flag.severity.label}): {flag.message}"
+                                    for flag in result.flags)
+            copy.add_comment(runs, text=messages, author=COMMENT_AUTHOR, initials="sc")
+            commented += 1
+            continue
         found = None
         index, offset = cursor
         while index < len(paragraphs):
