@@ -3,14 +3,16 @@ where it is, what was reported and recomputed, its effect and evidence. Formatti
 
 from __future__ import annotations
 
-from ..check.consistency import describe_p
+from ..check.consistency import describe_p, describe_statistic
+from ..check.estimates import describe_estimate
 from ..check.effects import LABELS
 from ..model import TEST_FAMILIES, ClaimResult, Status
 from ..numbers import format_p, format_p_interval
 
 
 def where(result: ClaimResult) -> str:
-    """Short location: "p.3 l.14" (PDF), "intro.tex:14" (LaTeX), "¶12" (Word, markup), "l.14"."""
+    """Short location: "p.3 l.14" (PDF), "intro.tex:14" (LaTeX), "¶12" (Word, markup),
+    "table 2 r3 c1" (a table cell), "l.14"."""
     location = result.claim.location
     if location.page:
         return f"p.{location.page} l.{location.line}"
@@ -19,7 +21,17 @@ def where(result: ClaimResult) -> str:
     if location.paragraph:
         paragraph = f"¶{location.paragraph}"
         return f"{paragraph} {location.cell}" if location.cell else paragraph
+    if location.cell:
+        return _short_cell(location.cell)
     return f"l.{location.line}"
+
+
+def _short_cell(label: str) -> str:
+    """"table 2, row 3, column 1" as "table 2 r3 c1"."""
+    parts = [part.strip() for part in label.split(",")]
+    if len(parts) == 3 and parts[1].startswith("row ") and parts[2].startswith("column "):
+        return f"{parts[0]} r{parts[1][4:]} c{parts[2][7:]}"
+    return label
 
 
 def reported(result: ClaimResult) -> str:
@@ -90,5 +102,14 @@ def status(result: ClaimResult) -> str:
 
 
 def printed(result: ClaimResult) -> str:
-    """The result as printed, with its white space collapsed."""
-    return " ".join(result.claim.text.split())
+    """The result as printed, with its white space collapsed; a row of a table, whose cells
+    alone say little ("1.48 210 .04"), as the result it prints, marked as a table row."""
+    claim = result.claim
+    if claim.pattern == "table-row":
+        first = (describe_estimate(claim) if claim.test == "estimate"
+                 else describe_statistic(claim))
+        estimate = claim.estimate if claim.test != "estimate" else None
+        if estimate is not None and estimate.se is not None:
+            first = f"{estimate.label} = {estimate.value}, SE = {estimate.se}, {first}"
+        return f"{first}, {describe_p(claim)} (table row)"
+    return " ".join(claim.text.split())
