@@ -195,3 +195,13 @@ def test_a_table_of_correlations_with_n():
     mass_depth, mass_speed = _check(_docx(rows), "r.docx").claims
     assert (mass_depth.claim.test, mass_depth.claim.n, mass_depth.flags) == ("r", "50", ())
     assert sorted(f.check for f in mass_speed.flags) == ["decision-flip", "p-mismatch"]
+
+
+def test_reports_show_a_row_as_the_result_it_prints(tmp_path):
+    from test_cli import run
+
+    path = tmp_path / "tables.docx"
+    path.write_bytes(_docx(TESTS))
+    out = run("check", str(path), "--format", "text")[1]
+    assert "t(28) = 2.20, p = .01 (table row)" in " ".join(out.split())
+    assert "table 1 r3 c2" in out
