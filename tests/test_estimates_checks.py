@@ -420,6 +420,19 @@ def test_an_interval_without_a_p_is_unchecked():
     assert result.status is Status.UNCHECKED and result.reason == "no p-value printed"
 
 
+def test_a_correlation_without_df_is_checked_through_its_interval():
+    # r = .19, 95% CI [-.11, .47]: Fisher's z gives SE = (atanh .47 - atanh -.11) / 3.92 =
+    # 0.158 and z = atanh .19 / 0.158 = 1.22, p = .22 (within the rounding of the printed
+    # numbers p may be .18 to .25): p = .21 fits, p = .02 does not. Without the interval the
+    # r has no df or N and stays unchecked.
+    fits = only_result("The correlation was r = .19, 95% CI [-.11, .47], p = .21.")
+    assert fits.status is Status.CONSISTENT and fits.flags == ()
+    wrong = only_result("The correlation was r = .19, 95% CI [-.11, .47], p = .02.")
+    assert [f.check for f in wrong.flags] == ["ci-p-mismatch"]
+    bare = only_result("The correlation was r = .19, p = .21.")
+    assert bare.status is Status.UNCHECKED and "no degrees of freedom" in bare.reason
+
+
 # -- ci-estimate-mismatch --------------------------------------------------------------------
 
 @pytest.mark.parametrize("text, why", [

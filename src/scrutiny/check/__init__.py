@@ -104,6 +104,11 @@ def verdict(claim: Claim, recomputed: Recomputed,
     if any(REGISTRY[f.check].marks_inconsistent for f in flags):
         return Status.INCONSISTENT, None
     if recomputed.reason:
+        if (recomputed.interval_facts is not None and claim.p is not None
+                and recomputed.reported_p_interval is not None):
+            # the statistic cannot be recomputed ("r = .19, 95% CI [-.11, .47], p = .21"
+            # without df), but its p was checked against its confidence interval and fits
+            return Status.CONSISTENT, None
         return Status.UNCHECKED, recomputed.reason
     if claim.test not in TEST_FAMILIES:
         return Status.CONSISTENT, None  # what could be checked (granularity, interval) was
