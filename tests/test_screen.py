@@ -218,6 +218,15 @@ def test_screen_and_summary_commands(corpus, tmp_path):
     assert "p_curve" in report and len(report["caliper"]) == 4
     assert len(report["documents_to_look_at"]) == FILES
     assert "broken.txt: binary file" in err
+    # the summary's JSON follows its published schema (checked with jsonschema)
+    jsonschema = pytest.importorskip("jsonschema")
+    from scrutiny.report.summary import SCHEMA_PATH
+
+    schema = json.loads(SCHEMA_PATH.read_text(encoding="utf-8"))
+    validator = jsonschema.Draft202012Validator(schema)
+    assert not [error.message for error in validator.iter_errors(report)]
+    code, out, _ = _run("summary", store, "--format", "json")
+    assert code == 0 and validator.is_valid(json.loads(out))
     code, out, _ = _run("summary", store)
     assert code == 0 and "p-curve" in out and "caliper test" in out
     assert "Documents to look at first" in out and "broken.txt" in out

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import json
+from pathlib import Path
 from typing import Any, TextIO
 
 from rich.console import Console
@@ -15,6 +16,8 @@ from ..screen import CorpusSummary, Screening
 from . import CAUTION
 
 
+#: the JSON Schema of the summary's JSON, shipped with the package
+SCHEMA_PATH = Path(__file__).resolve().parent / "schema" / "summary-1.json"
 #: how many documents the text summary lists under "Documents to look at first"
 DOCUMENTS_SHOWN = 20
 
