@@ -205,3 +205,14 @@ def test_reports_show_a_row_as_the_result_it_prints(tmp_path):
     out = run("check", str(path), "--format", "text")[1]
     assert "t(28) = 2.20, p = .01 (table row)" in " ".join(out.split())
     assert "table 1 r3 c2" in out
+
+
+def test_a_table_that_says_its_tests_are_one_tailed():
+    # t(28) = 1.80: two-sided p = .083, one-sided .041; printed p = .04
+    rows = [["Measure", "t", "df", "p"], ["Boldness", "1.80", "28", ".04"],
+            ["Note. One-tailed tests.", "", "", ""]]
+    [claim] = _check(_docx(rows), "one.docx").claims
+    assert claim.claim.tails_stated == "one"
+    assert [f.check for f in claim.flags] == ["one-sided"]
+    [silent] = _check(_docx(rows[:2]), "none.docx").claims
+    assert "undeclared-one-sided" in [f.check for f in silent.flags]

@@ -21,7 +21,7 @@ not read this way.
 from __future__ import annotations
 
 import re
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 import regex
 
@@ -86,15 +86,27 @@ def find_table_results(document: Document, library: Library,
         header_row, columns = _header(rows, library)
         if columns is None:
             continue
+        tails = _tails_stated(cells, library)
         for row_number in sorted(rows):
             if row_number <= header_row:
                 continue
             claim = _row_claim(document, rows[row_number], columns, rows[header_row])
+            if claim is not None and tails is not None:
+                claim = replace(claim, tails_stated=tails)
             if claim is not None and not any(claim.location.start < end and
                                              start < claim.location.end
                                              for start, end in taken):
                 found.append(claim)
     return found
+
+
+def _tails_stated(cells: list[_Cell], library: Library) -> str | None:
+    """What the table itself says of its tests' tails (a header "p (one-tailed)", a note row
+    "One-tailed tests."): "one", "two" or None."""
+    text = "\n".join(cell.plain for cell in cells)
+    one = any(p.compiled.search(text) for p in library.of_kind("tails-one"))
+    two = any(p.compiled.search(text) for p in library.of_kind("tails-two"))
+    return "one" if one and not two else "two" if two and not one else None
 
 
 def _tables(document: Document) -> dict[int, list[_Cell]]:
