@@ -216,3 +216,9 @@ def test_a_table_that_says_its_tests_are_one_tailed():
     assert [f.check for f in claim.flags] == ["one-sided"]
     [silent] = _check(_docx(rows[:2]), "none.docx").claims
     assert "undeclared-one-sided" in [f.check for f in silent.flags]
+
+
+def test_a_p_column_headed_one_tailed():
+    rows = [["Measure", "t", "df", "p (one-tailed)"], ["Boldness", "1.80", "28", ".04"]]
+    [claim] = _check(_docx(rows), "one.docx").claims
+    assert claim.claim.tails_stated == "one" and [f.check for f in claim.flags] == ["one-sided"]
