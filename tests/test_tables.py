@@ -222,3 +222,19 @@ def test_a_p_column_headed_one_tailed():
     rows = [["Measure", "t", "df", "p (one-tailed)"], ["Boldness", "1.80", "28", ".04"]]
     [claim] = _check(_docx(rows), "one.docx").claims
     assert claim.claim.tails_stated == "one" and [f.check for f in claim.flags] == ["one-sided"]
+
+
+@pytest.mark.parametrize("data, name", [
+    (b"<!DOCTYPE html><html><body><table><thead><tr><th>Measure</th><th><i>t</i></th>"
+     b"<th><i>df</i></th><th><i>p</i></th></tr></thead><tbody><tr><td>Range</td><td>2.20</td>"
+     b"<td>28</td><td>.01</td></tr></tbody></table></body></html>", "page.html"),
+    (b'<?xml version="1.0"?><article><body><table-wrap><label>Table 1</label><table><thead>'
+     b"<tr><th>Measure</th><th><italic>t</italic></th><th><italic>df</italic></th>"
+     b"<th><italic>p</italic></th></tr></thead><tbody><tr><td>Range</td><td>2.20</td>"
+     b"<td>28</td><td>.01</td></tr></tbody></table></table-wrap></body></article>",
+     "article.xml"),
+])
+def test_header_cells_in_italics_and_a_thead(data, name):
+    [claim] = _check(data, name).claims
+    assert (claim.claim.statistic, claim.claim.df, [f.check for f in claim.flags]) == (
+        "2.20", ("28",), ["p-mismatch"])
