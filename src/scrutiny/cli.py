@@ -18,13 +18,13 @@ import argparse
 import io
 import os
 import sys
-import tempfile
 from typing import Sequence, TextIO
 
 from . import __version__
 from .api import annotate, check_paths
 from .check import REGISTRY
 from .errors import ScrutinyError, UsageError
+from .files import replace_atomically
 from .model import Run, Settings, Severity
 from .report import FORMATS, SUMMARY_FORMATS, render
 from .report.csv import write_rows
@@ -254,31 +254,17 @@ def _deliver(text: str, output: str | None, stdout: TextIO) -> None:
         stdout.flush()
         return
     target = os.path.realpath(output)
-    if os.path.exists(target) and not os.path.isfile(target):
-        try:
-            with open(target, "w", encoding="utf-8", newline="") as stream:
-                stream.write(text)
-        except OSError as exc:
-            raise UsageError(f"--output {output}: cannot be written ({exc.strerror})") from None
-        return
-    try:
-        handle, temporary = tempfile.mkstemp(prefix=".scrutiny-",
-                                             dir=os.path.dirname(target))
-    except OSError as exc:
-        raise UsageError(f"--output {output}: cannot write there ({exc.strerror})") from None
-    try:
-        with os.fdopen(handle, "w", encoding="utf-8", newline="") as stream:
+
+    def write(path: str) -> None:
+        with open(path, "w", encoding="utf-8", newline="") as stream:
             stream.write(text)
-        if os.path.exists(target):
-            os.chmod(temporary, os.stat(target).st_mode & 0o7777)  # keep the old file's mode
+
+    try:
+        if os.path.exists(target) and not os.path.isfile(target):
+            write(target)  # a device or a pipe: written to, never replaced
         else:
-            umask = os.umask(0)
-            os.umask(umask)
-            os.chmod(temporary, 0o666 & ~umask)  # as a file created by open() would be
-        os.replace(temporary, target)
+            replace_atomically(target, write)
     except OSError as exc:
-        if os.path.exists(temporary):
-            os.unlink(temporary)
         raise UsageError(f"--output {output}: cannot be written ({exc.strerror})") from None
 
 

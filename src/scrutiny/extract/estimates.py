@@ -50,12 +50,14 @@ _P_WINDOW = 150
 _COEFFICIENT_GAP = 40
 RATIO_LABELS = frozenset({"OR", "aOR", "HR", "aHR", "RR", "aRR", "IRR", "aIRR", "PR", "aPR"})
 #: what may stand between a coefficient (or an interval) and the test of it
-_SEPARATORS = regex.compile(r"[\s,;()\[\]]*(?:(?:Wald|Wald's|Wald’s)\s*)?")
+_PUNCTUATION = r"[\s,;()\[\]]*"
+_WALD = r"(?:(?:Wald|Wald's|Wald’s)\s*)?"
+_SEPARATORS = regex.compile(_PUNCTUATION + _WALD)
 #: ... and, between a coefficient and its t or z, its standardised version: "B = 0.34,
 #: SE = 0.12, β = .23, t(120) = 2.80"
 _STANDARDISED_BETWEEN = regex.compile(
-    r"[\s,;()\[\]]*(?:(?:β|beta|standardi[sz]ed\s+β)\s*=\s*-?\d*\.?\d+[\s,;()\[\]]*)?"
-    r"(?:(?:Wald|Wald's|Wald’s)\s*)?")
+    _PUNCTUATION + r"(?:(?:β|beta|standardi[sz]ed\s+β)\s*=\s*-?\d*\.?\d+" + _PUNCTUATION
+    + r")?" + _WALD)
 #: how far before (after) a mean a count cue may stand to be about it
 _COUNT_CUE_BEFORE = 60
 _COUNT_CUE_AFTER = 30

@@ -77,7 +77,8 @@ def find_table_results(document: Document, library: Library,
     tables = _tables(document)
     if not tables:
         return []
-    taken = [(c.location.start, c.location.end) for c in claims]
+    # only a claim read from inside a cell can be a row's claim read twice
+    taken = [(c.location.start, c.location.end) for c in claims if c.location.cell]
     found: list[Claim] = []
     for cells in tables.values():
         rows: dict[int, dict[int, _Cell]] = {}
@@ -206,14 +207,10 @@ def _row_claim(document: Document, row: dict[int, _Cell], columns: dict[int, _Co
             n = cell.printed
             used.append(cell)
     estimate = None
-    coefficients, errors = cell_of("coefficient"), cell_of("se")
-    if coefficients and errors and test in ("t", "z"):
-        (value_cell, value_column), (se_cell, _) = coefficients[0], errors[0]
-        if _NUMBER.fullmatch(value_cell.plain) and _NUMBER.fullmatch(se_cell.plain):
-            estimate = Estimate(label=value_column.printed.strip("*_ ") or "b",
-                                value=_number_as_printed(value_cell),
-                                se=_number_as_printed(se_cell))
-            used += [value_cell, se_cell]
+    coefficient = _coefficient(cell_of) if test in ("t", "z") else None
+    if coefficient is not None:
+        estimate, cells = coefficient
+        used += cells
     return _claim(document, row, header, used, test=test, df=df,
                   statistic=_number_as_printed(statistic_cell), p=p_value, n=n,
                   estimate=estimate)
@@ -223,16 +220,25 @@ def _coefficient_claim(document: Document, row: dict[int, _Cell], cell_of, p_cel
                        header: dict[int, _Cell]) -> Claim | None:
     """A row of a table of coefficients without a test statistic column: b, SE and p."""
     p_value = _p_value(p_cell)
+    coefficient = _coefficient(cell_of)
+    if p_value is None or coefficient is None:
+        return None
+    estimate, cells = coefficient
+    return _claim(document, row, header, [*cells, p_cell], test="estimate",
+                  df=(), statistic=estimate.value, p=p_value, n=None, estimate=estimate)
+
+
+def _coefficient(cell_of) -> tuple[Estimate, list[_Cell]] | None:
+    """The row's coefficient and its SE (b and SE columns), and their cells."""
     coefficients, errors = cell_of("coefficient"), cell_of("se")
-    if p_value is None or not coefficients or not errors:
+    if not coefficients or not errors:
         return None
     (value_cell, value_column), (se_cell, _) = coefficients[0], errors[0]
     if not (_NUMBER.fullmatch(value_cell.plain) and _NUMBER.fullmatch(se_cell.plain)):
         return None
-    estimate = Estimate(label=value_column.printed.strip("*_ ") or "b",
-                        value=_number_as_printed(value_cell), se=_number_as_printed(se_cell))
-    return _claim(document, row, header, [value_cell, se_cell, p_cell], test="estimate",
-                  df=(), statistic=estimate.value, p=p_value, n=None, estimate=estimate)
+    return (Estimate(label=value_column.printed.strip("*_ ") or "b",
+                     value=_number_as_printed(value_cell), se=_number_as_printed(se_cell)),
+            [value_cell, se_cell])
 
 
 def _interval_claim(document: Document, row: dict[int, _Cell], cell_of, p_cell: _Cell,

@@ -41,6 +41,7 @@ from typing import Iterator
 
 from ..errors import InputError
 from ..model import Document, Segment
+from .normalise import TO_SUPERSCRIPT
 
 FORMAT = "docx"
 SUFFIXES = (".docx",)
@@ -300,7 +301,7 @@ def _paragraph_text(paragraph, text_boxes: list) -> str:
                 if superscript and text.isdigit() and pieces and "0" <= pieces[-1][-1:] <= "9":
                     # digits raised right after a number: an exponent or a note marker, which
                     # normalisation tells apart; kept apart from the number
-                    text = text.translate(_SUPERSCRIPT_DIGITS)
+                    text = text.translate(TO_SUPERSCRIPT)
                 pieces.append(_in_symbol_font_text(text) if symbol_font else text)
             elif tag in _SINGLE_CHARACTERS:
                 pieces.append(_SINGLE_CHARACTERS[tag])
@@ -328,8 +329,6 @@ def _in_symbol_font_text(text: str) -> str:
     return "".join(characters)
 
 
-_SUPERSCRIPT_DIGITS = str.maketrans("0123456789", "\u2070\u00b9\u00b2\u00b3\u2074\u2075\u2076"
-                                                 "\u2077\u2078\u2079")
 
 
 def _is_superscript(run) -> bool:

@@ -49,6 +49,7 @@ from pathlib import Path
 
 from ..errors import InputError
 from ..model import Document, Segment
+from .normalise import TO_SUPERSCRIPT
 
 FORMAT = "html"
 ALSO = ("jats",)
@@ -585,7 +586,7 @@ class _Walker:
         # digits so that they do not join the number. Elsewhere ("χ<sup>2</sup>") as printed.
         text = element.text or ""
         before = self.buffer[-1][-1:] if self.buffer else ""
-        self.text(text.translate(_SUPERSCRIPT_DIGITS) if "0" <= before <= "9" else text)
+        self.text(text.translate(TO_SUPERSCRIPT) if "0" <= before <= "9" else text)
 
     def on_break(self, element, name: str) -> None:
         self.text("\n")
@@ -716,8 +717,6 @@ def _line_at(marks: list[tuple[int, int]], text: str, offset: int) -> int | None
 _LINK_NAMES = frozenset({"a", "xref"})
 
 
-_SUPERSCRIPT_DIGITS = str.maketrans("0123456789", "\u2070\u00b9\u00b2\u00b3\u2074\u2075\u2076"
-                                                 "\u2077\u2078\u2079")
 
 
 def _holds_only_digits(element) -> bool:

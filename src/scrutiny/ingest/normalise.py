@@ -43,6 +43,9 @@ _CHARACTER_MAP = {
 
 _MIDDLE_DOTS = "\u00b7\u2219"
 _SUPERSCRIPT_DIGITS = "\u2070\u00b9\u00b2\u00b3\u2074\u2075\u2076\u2077\u2078\u2079"
+#: digits to superscript digits (str.translate): readers write digits printed raised right
+#: after a number this way, and `normalise` then tells a note marker from an exponent
+TO_SUPERSCRIPT = str.maketrans("0123456789", _SUPERSCRIPT_DIGITS)
 # A middle dot between digits is a decimal point ("0·03"), except before a power of ten, where
 # it multiplies ("3·10⁻⁶").
 _POWER_OF_TEN = regex.compile(

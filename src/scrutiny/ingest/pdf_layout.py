@@ -36,6 +36,8 @@ from dataclasses import dataclass, field
 
 import pypdfium2.raw as pdfium
 
+from .normalise import TO_SUPERSCRIPT
+
 #: a generated line break of pdfium's text, and its mark of a word hyphenated at a line end
 _LINE_BREAK = re.compile("\r\n|\ufffe")
 #: an integer printed in the margin beside a line, at the line's start or end
@@ -376,8 +378,6 @@ SIGN_NUMBER = re.compile(r"(?P<sign>[=<>\u2264\u2265,\u00bc\u2afd\u2b0d\x00-\x08
                          r"(?P<number>[\d.,]*(\d))(?:[ ]?[×x*·][ ]?10[ ]?\^?-?[ ]?\d*(\d))?")
 
 
-_SUPERSCRIPT_DIGITS = str.maketrans("0123456789", "\u2070\u00b9\u00b2\u00b3\u2074\u2075\u2076"
-                                                 "\u2077\u2078\u2079")
 
 
 def _mark_raised_digits(page: TextPage, lines: list[Line]) -> None:
@@ -411,7 +411,7 @@ def _mark_raised_digits(page: TextPage, lines: list[Line]) -> None:
                     stop = offset
                     while stop < len(text) and text[stop].isdigit():
                         stop += 1
-                    text = text[:offset] + text[offset:stop].translate(_SUPERSCRIPT_DIGITS) \
+                    text = text[:offset] + text[offset:stop].translate(TO_SUPERSCRIPT) \
                         + text[stop:]
                     break
         line.text = text

@@ -17,12 +17,12 @@ first paragraph, which also carries the caution.
 from __future__ import annotations
 
 import os
-import tempfile
 from pathlib import Path
 from typing import Iterator
 
 from .. import __version__
 from ..errors import InputError
+from ..files import replace_atomically
 from ..model import Box, DocumentResult, Severity
 from . import CAUTION
 
@@ -114,8 +114,7 @@ def annotate_pdf(document: DocumentResult, target: str) -> tuple[int, int]:
             missed += 1
             continue
         worst = max(flag.severity for flag in result.flags)
-        messages = "\n\n".join(f"{flag.check} ({flag.severity.label}): {flag.message}"
-                               for flag in result.flags)
+        messages = _messages(result)
         subject = ", ".join(flag.check for flag in result.flags)
         for index, box in enumerate(result.claim.location.boxes):
             if not 1 <= box.page <= len(writer.pages):
@@ -151,20 +150,13 @@ def annotate_pdf(document: DocumentResult, target: str) -> tuple[int, int]:
 
 
 def _write_atomically(target: str, suffix: str, write) -> None:
-    """`write(path)` into a temporary file beside `target`, then put it in place: a failure
-    leaves no half-written copy and whatever was at `target` untouched."""
-    folder = os.path.dirname(os.path.abspath(target))
+    """`write(path)` put in `target`'s place only once complete (see `files`), with a one-line
+    error for the user."""
     try:
-        handle, temporary = tempfile.mkstemp(prefix=".scrutiny-", suffix=suffix, dir=folder)
-        os.close(handle)
+        replace_atomically(target, write, suffix)
     except OSError as exc:
         raise AnnotationError(target, f"cannot be written ({exc.strerror})") from None
-    try:
-        write(temporary)
-        os.replace(temporary, target)
     except Exception as exc:
-        if os.path.exists(temporary):
-            os.unlink(temporary)
         raise AnnotationError(target, f"cannot be written ({type(exc).__name__}: "
                                       f"{exc})") from None
 
@@ -306,34 +298,12 @@ def annotate_docx(document: DocumentResult, target: str) -> tuple[int, int]:
             # a row of a table, printed across cells: the comment goes on the first cell read
             runs = _cell_runs(copy, result.claim.location.cell,
                               next(line for line in printed.split("\n") if line.strip()).strip())
-            if runs is None:
-                missed += 1
-                continue
-            messages = "\n\n".join(f"{flag.check} ({flag.severity.label}): {flag.message}"
-                                    for flag in result.flags)
-            copy.add_comment(runs, text=messages, author=COMMENT_AUTHOR, initials="sc")
-            commented += 1
-            continue
-        found = None
-        index, offset = cursor
-        while index < len(paragraphs):
-            at = texts[index].find(printed, offset)
-            if at >= 0:
-                found = (index, at)
-                break
-            index, offset = index + 1, 0
-        runs = None
-        if found is not None:
-            index, at = found
-            runs = _isolate(paragraphs[index], at, at + len(printed))
-            texts[index] = "".join(run.text for run in paragraphs[index].runs)
-            cursor = (index, at + len(printed))
+        else:
+            runs, cursor = _text_runs(paragraphs, texts, cursor, printed)
         if not runs:
             missed += 1
             continue
-        messages = "\n\n".join(f"{flag.check} ({flag.severity.label}): {flag.message}"
-                               for flag in result.flags)
-        copy.add_comment(runs, text=messages, author=COMMENT_AUTHOR, initials="sc")
+        copy.add_comment(runs, text=_messages(result), author=COMMENT_AUTHOR, initials="sc")
         commented += 1
     first = next((paragraph for paragraph in paragraphs if paragraph.runs), None)
     if first is not None:
@@ -347,6 +317,27 @@ def annotate_docx(document: DocumentResult, target: str) -> tuple[int, int]:
                               f"{CAUTION}")
     _write_atomically(target, ".docx", copy.save)
     return commented, missed
+
+
+def _text_runs(paragraphs: list, texts: list[str], cursor: tuple[int, int],
+               printed: str) -> tuple[list | None, tuple[int, int]]:
+    """The runs that print `printed`, searched from `cursor` (paragraph, offset) on, since
+    claims come in document order; and where the next search starts."""
+    index, offset = cursor
+    while index < len(paragraphs):
+        at = texts[index].find(printed, offset)
+        if at >= 0:
+            runs = _isolate(paragraphs[index], at, at + len(printed))
+            texts[index] = "".join(run.text for run in paragraphs[index].runs)
+            return runs, (index, at + len(printed))
+        index, offset = index + 1, 0
+    return None, cursor
+
+
+def _messages(result) -> str:
+    """A flagged result's flags, for its note or comment."""
+    return "\n\n".join(f"{flag.check} ({flag.severity.label}): {flag.message}"
+                        for flag in result.flags)
 
 
 def _is_our_docx(path: str) -> bool:

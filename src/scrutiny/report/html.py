@@ -14,7 +14,7 @@ from typing import TextIO
 
 from .. import __version__
 from ..check import REGISTRY
-from ..model import ClaimResult, DocumentResult, Run
+from ..model import ClaimResult, DocumentResult, Run, Status
 from . import CAUTION, Summary, phrases
 
 _STYLE = """
@@ -74,7 +74,7 @@ def _contents(run: Run, out: list[str]) -> None:
         if document.errors:
             counts = '<td colspan="3" class="unreadable">could not be read</td>'
         else:
-            inconsistent = sum(1 for r in document.claims if r.status.value == "inconsistent")
+            inconsistent = sum(1 for r in document.claims if r.status is Status.INCONSISTENT)
             flags = sum(len(r.flags) for r in document.claims)
             counts = (f"<td>{len(document.claims)}</td><td>{inconsistent}</td>"
                       f"<td>{flags}</td>")
